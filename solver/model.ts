@@ -1,0 +1,363 @@
+/**
+ * Compile a mechanism (species + elementary steps) into a mass-action model:
+ * sparse stoichiometry, right-hand side dc/dt, analytic sparse Jacobian, conservation laws
+ * (left null space of the stoichiometric matrix) and an element-balance report.
+ *
+ * Units: concentrations c in mol/L; time in s; forward/reverse rate constants kf, kr in
+ * (mol/L)^(1−m) s⁻¹ for a step of molecularity m (m = sum of coefficients on that side);
+ * reaction rates v in mol L⁻¹ s⁻¹; dc/dt in mol L⁻¹ s⁻¹; Jacobian entries in s⁻¹.
+ *
+ * Rate-law convention (IUPAC Green Book, rate of reaction — common practice): an elementary
+ * step Σ ν_i R_i → Σ μ_j P_j has rate v = kf·Π c_Ri^ν_i − kr·Π c_Pj^μ_j, and
+ * dc_X/dt = Σ_steps (μ_X − ν_X)·v. So for 2A → P, d[A]/dt = −2·k·[A]², and 1/[A] = 1/[A]₀ + 2kt.
+ *
+ * The model does not know rate constants: callers supply arrays kf[r], kr[r] for the current
+ * temperature (kr ignored for irreversible steps).
+ */
+import type { EngineError, Result, Species, StoichTerm } from "./types.ts";
+import { checkElementBalance, type BalanceReport } from "./formula.ts";
+
+export interface ReactionInput {
+  id: string;
+  reactants: StoichTerm[];
+  products: StoichTerm[];
+  reversible: boolean;
+}
+
+export interface MechanismInput {
+  species: Species[];
+  /** Elementary steps; a StepKinetics from types.ts fits this shape. */
+  reactions: ReactionInput[];
+}
+
+export interface ElementBalanceEntry {
+  reactionId: string;
+  /** null when some species of the step has no formula. */
+  report: BalanceReport | null;
+}
+
+export interface CompiledModel {
+  readonly nSpecies: number;
+  readonly nReactions: number;
+  readonly speciesIds: string[];
+  readonly reactionIds: string[];
+  readonly speciesIndex: ReadonlyMap<string, number>;
+  readonly reversible: Uint8Array;
+  /** Stoichiometric matrix N (species × reactions), CSR by species row; N = products − reactants. */
+  readonly stoich: { rowPtr: Int32Array; colIdx: Int32Array; values: Float64Array };
+  /** Net rate of each step (mol L⁻¹ s⁻¹) into v. */
+  rates(c: Float64Array, kf: Float64Array, kr: Float64Array, v: Float64Array): void;
+  /** dc/dt (mol L⁻¹ s⁻¹) into dcdt. */
+  rhs(c: Float64Array, kf: Float64Array, kr: Float64Array, dcdt: Float64Array): void;
+  /** CSR pattern of ∂(dc/dt)/∂c, computed once; column indices ascending per row. */
+  readonly jacobianPattern: { rowPtr: Int32Array; colIdx: Int32Array };
+  /** Fill Jacobian values (s⁻¹) in pattern order. */
+  jacobian(c: Float64Array, kf: Float64Array, kr: Float64Array, values: Float64Array): void;
+  /** Basis of conservation laws w (wᵀN = 0), one Float64Array per law, length nSpecies. Computed on first use. */
+  conservationLaws(): Float64Array[];
+  /** Per-step element and charge balance from species formulas. */
+  readonly elementBalance: ElementBalanceEntry[];
+  /** Non-fatal findings (unbalanced steps, unparsable formulas). */
+  readonly warnings: string[];
+}
+
+function bad(code: string, message: string, path?: string): { ok: false; error: EngineError } {
+  return { ok: false, error: path ? { code, message, path } : { code, message } };
+}
+
+interface Side {
+  sp: number[];
+  ord: number[];
+}
+
+/** Compile a mechanism into a mass-action model, or return a typed error. */
+export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
+  if (!input || !Array.isArray(input.species) || !Array.isArray(input.reactions)) return bad("BAD_INPUT", "A mechanism needs a species list and a step list.");
+  if (input.species.length === 0 || input.reactions.length === 0) return bad("EMPTY_MECHANISM", "The mechanism has no species or no steps.");
+  const speciesIndex = new Map<string, number>();
+  input.species.forEach((s, i) => {
+    if (!speciesIndex.has(s.id)) speciesIndex.set(s.id, i);
+  });
+  for (let i = 0; i < input.species.length; i++) {
+    const id = input.species[i].id;
+    if (typeof id !== "string" || id === "") return bad("BAD_SPECIES", `Species ${i} has no id.`, `species[${i}].id`);
+    if (speciesIndex.get(id) !== i) return bad("DUPLICATE_SPECIES", `Species "${id}" is listed more than once.`, `species[${i}].id`);
+  }
+  const nS = input.species.length;
+  const nR = input.reactions.length;
+  const reactionIds: string[] = [];
+  const seenR = new Set<string>();
+  const fwd: Side[] = [];
+  const rev: Side[] = [];
+  const reversible = new Uint8Array(nR);
+  const net: Map<number, number>[] = [];
+  for (let r = 0; r < nR; r++) {
+    const rx = input.reactions[r];
+    const path = `reactions[${r}]`;
+    if (seenR.has(rx.id)) return bad("DUPLICATE_STEP", `Step "${rx.id}" is listed more than once.`, `${path}.id`);
+    seenR.add(rx.id);
+    reactionIds.push(rx.id);
+    reversible[r] = rx.reversible ? 1 : 0;
+    const sides: [StoichTerm[], string][] = [
+      [rx.reactants, "reactants"],
+      [rx.products, "products"],
+    ];
+    const parsed: Side[] = [];
+    for (const [terms, name] of sides) {
+      if (!Array.isArray(terms) || terms.length === 0) return bad("EMPTY_SIDE", `Step "${rx.id}" has no ${name}.`, `${path}.${name}`);
+      const acc = new Map<number, number>();
+      for (let j = 0; j < terms.length; j++) {
+        const t = terms[j];
+        const i = speciesIndex.get(t.species);
+        if (i === undefined) return bad("UNKNOWN_SPECIES", `Step "${rx.id}" refers to species "${t.species}", which is not in the mechanism.`, `${path}.${name}[${j}].species`);
+        if (!Number.isInteger(t.coef) || t.coef <= 0) return bad("BAD_COEFFICIENT", `Step "${rx.id}" has coefficient ${t.coef} for "${t.species}"; coefficients must be positive integers.`, `${path}.${name}[${j}].coef`);
+        acc.set(i, (acc.get(i) ?? 0) + t.coef);
+      }
+      let m = 0;
+      for (const v of acc.values()) m += v;
+      if (m > 3 && (name === "reactants" || rx.reversible)) return bad("MOLECULARITY", `Step "${rx.id}" has molecularity ${m} on its ${name} side; elementary steps allow at most 3.`, `${path}.${name}`);
+      parsed.push({ sp: [...acc.keys()], ord: [...acc.values()] });
+    }
+    fwd.push(parsed[0]);
+    rev.push(parsed[1]);
+    const nm = new Map<number, number>();
+    parsed[0].sp.forEach((s, k) => nm.set(s, (nm.get(s) ?? 0) - parsed[0].ord[k]));
+    parsed[1].sp.forEach((s, k) => nm.set(s, (nm.get(s) ?? 0) + parsed[1].ord[k]));
+    for (const [s, v] of [...nm]) if (v === 0) nm.delete(s);
+    net.push(nm);
+  }
+
+  // ---- flattened step data
+  const flat = (sides: Side[]) => {
+    const ptr = new Int32Array(nR + 1);
+    for (let r = 0; r < nR; r++) ptr[r + 1] = ptr[r] + sides[r].sp.length;
+    const sp = new Int32Array(ptr[nR]);
+    const ord = new Int32Array(ptr[nR]);
+    for (let r = 0; r < nR; r++) sides[r].sp.forEach((s, k) => ((sp[ptr[r] + k] = s), (ord[ptr[r] + k] = sides[r].ord[k])));
+    return { ptr, sp, ord };
+  };
+  const F = flat(fwd);
+  const B = flat(rev);
+  const nPtr = new Int32Array(nR + 1);
+  for (let r = 0; r < nR; r++) nPtr[r + 1] = nPtr[r] + net[r].size;
+  const nSp = new Int32Array(nPtr[nR]);
+  const nCoef = new Float64Array(nPtr[nR]);
+  for (let r = 0; r < nR; r++) {
+    let q = nPtr[r];
+    for (const [s, v] of net[r]) ((nSp[q] = s), (nCoef[q] = v), q++);
+  }
+  // stoichiometric matrix in CSR by species
+  const stRows: [number, number][][] = Array.from({ length: nS }, () => []);
+  for (let r = 0; r < nR; r++) for (const [s, v] of net[r]) stRows[s].push([r, v]);
+  const stPtr = new Int32Array(nS + 1);
+  for (let i = 0; i < nS; i++) stPtr[i + 1] = stPtr[i] + stRows[i].length;
+  const stCol = new Int32Array(stPtr[nS]);
+  const stVal = new Float64Array(stPtr[nS]);
+  for (let i = 0; i < nS; i++) stRows[i].forEach(([r, v], k) => ((stCol[stPtr[i] + k] = r), (stVal[stPtr[i] + k] = v)));
+
+  const power = (c: number, o: number) => (o === 1 ? c : o === 2 ? c * c : o === 3 ? c * c * c : Math.pow(c, o));
+
+  function rates(c: Float64Array, kf: Float64Array, kr: Float64Array, v: Float64Array): void {
+    for (let r = 0; r < nR; r++) {
+      let a = kf[r];
+      for (let q = F.ptr[r]; q < F.ptr[r + 1]; q++) a *= power(c[F.sp[q]], F.ord[q]);
+      if (reversible[r]) {
+        let b = kr[r];
+        for (let q = B.ptr[r]; q < B.ptr[r + 1]; q++) b *= power(c[B.sp[q]], B.ord[q]);
+        a -= b;
+      }
+      v[r] = a;
+    }
+  }
+  const vbuf = new Float64Array(nR);
+  function rhs(c: Float64Array, kf: Float64Array, kr: Float64Array, dcdt: Float64Array): void {
+    rates(c, kf, kr, vbuf);
+    dcdt.fill(0);
+    for (let r = 0; r < nR; r++) {
+      const v = vbuf[r];
+      for (let q = nPtr[r]; q < nPtr[r + 1]; q++) dcdt[nSp[q]] += nCoef[q] * v;
+    }
+  }
+
+  // ---- Jacobian: derivative slots per step (species the rate depends on)
+  const slotSpecies: number[][] = [];
+  for (let r = 0; r < nR; r++) {
+    const set = new Set<number>(fwd[r].sp);
+    if (reversible[r]) for (const s of rev[r].sp) set.add(s);
+    slotSpecies.push([...set]);
+  }
+  const patRows: Set<number>[] = Array.from({ length: nS }, () => new Set());
+  for (let r = 0; r < nR; r++) for (const [i] of net[r]) for (const s of slotSpecies[r]) patRows[i].add(s);
+  const jPtr = new Int32Array(nS + 1);
+  const rowLists = patRows.map((s) => [...s].sort((a, b) => a - b));
+  for (let i = 0; i < nS; i++) jPtr[i + 1] = jPtr[i] + rowLists[i].length;
+  const jCol = new Int32Array(jPtr[nS]);
+  const posMap: Map<number, number>[] = [];
+  for (let i = 0; i < nS; i++) {
+    const m = new Map<number, number>();
+    rowLists[i].forEach((s, k) => ((jCol[jPtr[i] + k] = s), m.set(s, jPtr[i] + k)));
+    posMap.push(m);
+  }
+  const slotPtr = new Int32Array(nR + 1);
+  for (let r = 0; r < nR; r++) slotPtr[r + 1] = slotPtr[r] + slotSpecies[r].length;
+  const slotSp = new Int32Array(slotPtr[nR]);
+  for (let r = 0; r < nR; r++) slotSpecies[r].forEach((s, k) => (slotSp[slotPtr[r] + k] = s));
+  // for each forward/reverse factor, which slot it belongs to
+  const fSlot = new Int32Array(F.sp.length);
+  const bSlot = new Int32Array(B.sp.length);
+  for (let r = 0; r < nR; r++) {
+    for (let q = F.ptr[r]; q < F.ptr[r + 1]; q++) fSlot[q] = slotPtr[r] + slotSpecies[r].indexOf(F.sp[q]);
+    for (let q = B.ptr[r]; q < B.ptr[r + 1]; q++) bSlot[q] = slotPtr[r] + slotSpecies[r].indexOf(B.sp[q]);
+  }
+  const contribPtr = new Int32Array(nR + 1);
+  const contribPosList: number[] = [];
+  for (let r = 0; r < nR; r++) {
+    for (const [i] of net[r]) for (const s of slotSpecies[r]) contribPosList.push(posMap[i].get(s)!);
+    contribPtr[r + 1] = contribPosList.length;
+  }
+  const contribPos = Int32Array.from(contribPosList);
+  const dv = new Float64Array(slotPtr[nR]);
+
+  function jacobian(c: Float64Array, kf: Float64Array, kr: Float64Array, values: Float64Array): void {
+    values.fill(0);
+    dv.fill(0);
+    for (let r = 0; r < nR; r++) {
+      // forward: ∂(kf Π c^o)/∂c_s = kf·o_s·c_s^(o_s−1)·Π_{others}
+      const f0 = F.ptr[r], f1 = F.ptr[r + 1];
+      for (let q = f0; q < f1; q++) {
+        let d = kf[r] * F.ord[q] * (F.ord[q] === 1 ? 1 : power(c[F.sp[q]], F.ord[q] - 1));
+        for (let p = f0; p < f1; p++) if (p !== q) d *= power(c[F.sp[p]], F.ord[p]);
+        dv[fSlot[q]] += d;
+      }
+      if (reversible[r]) {
+        const b0 = B.ptr[r], b1 = B.ptr[r + 1];
+        for (let q = b0; q < b1; q++) {
+          let d = kr[r] * B.ord[q] * (B.ord[q] === 1 ? 1 : power(c[B.sp[q]], B.ord[q] - 1));
+          for (let p = b0; p < b1; p++) if (p !== q) d *= power(c[B.sp[p]], B.ord[p]);
+          dv[bSlot[q]] -= d;
+        }
+      }
+      let idx = contribPtr[r];
+      const s0 = slotPtr[r], s1 = slotPtr[r + 1];
+      for (let q = nPtr[r]; q < nPtr[r + 1]; q++) {
+        const coef = nCoef[q];
+        for (let k = s0; k < s1; k++) values[contribPos[idx++]] += coef * dv[k];
+      }
+    }
+  }
+
+  // ---- element balance
+  const warnings: string[] = [];
+  const elementBalance: ElementBalanceEntry[] = [];
+  for (let r = 0; r < nR; r++) {
+    const rx = input.reactions[r];
+    const formulaOf = (t: StoichTerm) => input.species[speciesIndex.get(t.species)!].formula;
+    const all = [...rx.reactants, ...rx.products];
+    if (all.some((t) => !formulaOf(t))) {
+      elementBalance.push({ reactionId: rx.id, report: null });
+      continue;
+    }
+    const res = checkElementBalance(
+      rx.reactants.map((t) => ({ formula: formulaOf(t)!, coef: t.coef })),
+      rx.products.map((t) => ({ formula: formulaOf(t)!, coef: t.coef })),
+    );
+    if (!res.ok) {
+      warnings.push(`Step "${rx.id}": a species formula could not be read (${res.error.message})`);
+      elementBalance.push({ reactionId: rx.id, report: null });
+    } else {
+      elementBalance.push({ reactionId: rx.id, report: res.value });
+      if (!res.value.balanced) {
+        const parts = Object.entries(res.value.elementExcess).map(([e, v]) => `${e} ${v > 0 ? "+" : ""}${v}`);
+        if (res.value.chargeExcess !== 0) parts.push(`charge ${res.value.chargeExcess > 0 ? "+" : ""}${res.value.chargeExcess}`);
+        warnings.push(`Step "${rx.id}" is not balanced (products − reactants: ${parts.join(", ")}).`);
+      }
+    }
+  }
+
+  let laws: Float64Array[] | null = null;
+  const conservationLaws = () => {
+    if (!laws) laws = leftNullSpace(nS, nR, net);
+    return laws;
+  };
+
+  return {
+    ok: true,
+    value: {
+      nSpecies: nS,
+      nReactions: nR,
+      speciesIds: input.species.map((s) => s.id),
+      reactionIds,
+      speciesIndex,
+      reversible,
+      stoich: { rowPtr: stPtr, colIdx: stCol, values: stVal },
+      rates,
+      rhs,
+      jacobianPattern: { rowPtr: jPtr, colIdx: jCol },
+      jacobian,
+      conservationLaws,
+      elementBalance,
+      warnings,
+    },
+  };
+}
+
+/**
+ * Basis of {w : wᵀN = 0}: the null space of Nᵀ (reactions × species) by reduced row echelon
+ * form with partial pivoting (textbook Gauss–Jordan; common practice). Rows are kept sparse
+ * as Maps, which keeps big mass-action networks cheap. Each basis vector is scaled so its
+ * smallest non-zero magnitude is 1 and near-integers are rounded.
+ */
+export function leftNullSpace(nS: number, nR: number, net: Map<number, number>[]): Float64Array[] {
+  const rows: Map<number, number>[] = net.map((m) => new Map(m));
+  const pivotCols: number[] = [];
+  const pivotRowOf = new Int32Array(nS).fill(-1);
+  const tol = 1e-10;
+  let rank = 0;
+  // column index → set of rows (among unprocessed) having a non-zero there
+  for (let col = 0; col < nS && rank < nR; col++) {
+    let best = -1;
+    let bestAbs = tol;
+    for (let r = rank; r < rows.length; r++) {
+      const v = Math.abs(rows[r].get(col) ?? 0);
+      if (v > bestAbs) {
+        bestAbs = v;
+        best = r;
+      }
+    }
+    if (best < 0) continue;
+    [rows[rank], rows[best]] = [rows[best], rows[rank]];
+    const prow = rows[rank];
+    const pv = prow.get(col)!;
+    for (const [k, v] of prow) prow.set(k, v / pv);
+    for (let r = 0; r < rows.length; r++) {
+      if (r === rank) continue;
+      const f = rows[r].get(col);
+      if (f === undefined || f === 0) continue;
+      const row = rows[r];
+      for (const [k, v] of prow) {
+        const nv = (row.get(k) ?? 0) - f * v;
+        if (Math.abs(nv) < tol) row.delete(k);
+        else row.set(k, nv);
+      }
+    }
+    pivotCols.push(col);
+    pivotRowOf[col] = rank;
+    rank++;
+  }
+  const laws: Float64Array[] = [];
+  for (let free = 0; free < nS; free++) {
+    if (pivotRowOf[free] >= 0) continue;
+    const w = new Float64Array(nS);
+    w[free] = 1;
+    for (const pc of pivotCols) w[pc] = -(rows[pivotRowOf[pc]].get(free) ?? 0);
+    let minAbs = Infinity;
+    for (let i = 0; i < nS; i++) if (Math.abs(w[i]) > tol && Math.abs(w[i]) < minAbs) minAbs = Math.abs(w[i]);
+    for (let i = 0; i < nS; i++) {
+      let v = w[i] / minAbs;
+      if (Math.abs(v - Math.round(v)) < 1e-9) v = Math.round(v);
+      w[i] = Math.abs(v) < tol ? 0 : v;
+    }
+    laws.push(w);
+  }
+  return laws;
+}

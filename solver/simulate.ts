@@ -1,0 +1,218 @@
+/**
+ * Run a compiled mechanism through time under a temperature program.
+ * Units: time s; concentrations mol/L; temperatures K; rate constants (mol/L)^(1−m) s⁻¹
+ * supplied by the caller as functions of T (K); tolerances: rtol unitless, atol mol/L.
+ */
+import type { EngineError, Result } from "./types.ts";
+import type { CompiledModel } from "./model.ts";
+import type { IntegrationError, IntegrationStats, OdeProblem, StepView } from "./ode-problem.ts";
+import { integrateStiff } from "./rosenbrock.ts";
+import { integrateNonStiff } from "./nonstiff.ts";
+import { compileTemperatureProgram, type TemperatureProgram } from "./temperature-program.ts";
+import { buildOutputTimes, type OutputGrid } from "./output-grid.ts";
+
+/** Rate constants of one step as functions of temperature T (K) → (mol/L)^(1−m) s⁻¹. */
+export interface StepRateFunctions {
+  kf: (T: number) => number;
+  /** Required for reversible steps. */
+  kr?: (T: number) => number;
+}
+
+export interface SimulateOptions {
+  /** One entry per step, in model order, or keyed by step id. */
+  rateConstants: StepRateFunctions[] | Record<string, StepRateFunctions>;
+  temperature: TemperatureProgram;
+  /** Initial concentrations, mol/L: array in species order or record by species id (missing = 0). */
+  initial: ArrayLike<number> | Record<string, number>;
+  /** End time, s (> 0). The run starts at t = 0. */
+  tEnd: number;
+  /** Output grid; default logarithmic, 200 points from tEnd·1e-6. */
+  grid?: OutputGrid;
+  rtol?: number; // default 1e-6
+  atol?: number; // mol/L, default 1e-12
+  method?: "stiff" | "nonstiff"; // default "stiff"
+  maxSteps?: number; // default 100000
+  maxWallMs?: number; // ms, default unlimited
+  now?: () => number; // ms clock
+  signal?: AbortSignal;
+  onProgress?: (tReached: number) => void; // s
+  /** Called for each accepted step of the stiff integrator (dense output, events). */
+  onStep?: (step: StepView) => void;
+  linearSolver?: "auto" | "dense" | "sparse";
+  /** Compute conservation-law drift; default true when the mechanism has ≤ 400 species. */
+  conservation?: boolean;
+}
+
+export interface ConservationDrift {
+  /** Law coefficients per species (wᵀc is conserved). */
+  law: Float64Array;
+  /** max over output times of |wᵀc(t) − wᵀc(0)| / Σ|w_i|c_i(0) (unitless). */
+  maxRelDrift: number;
+}
+
+export interface SimulationResult {
+  speciesIds: string[];
+  times: Float64Array; // s
+  /** conc[i][k] = concentration of species i at times[k], mol/L. */
+  conc: Float64Array[];
+  temperatures: Float64Array; // K at the output times
+  stats: IntegrationStats;
+  drift: ConservationDrift[];
+  maxDrift: number;
+  warnings: string[];
+}
+
+export type SimulationError = EngineError & { reason?: IntegrationError["reason"]; partial?: SimulationResult };
+
+function bad(code: string, message: string, path?: string): { ok: false; error: SimulationError } {
+  return { ok: false, error: path ? { code, message, path } : { code, message } };
+}
+
+/** Simulate a mechanism; returns concentrations on the output grid or a typed error. */
+export function simulate(model: CompiledModel, options: SimulateOptions): Result<SimulationResult> {
+  const nS = model.nSpecies;
+  const nR = model.nReactions;
+  if (!options || typeof options !== "object") return bad("BAD_INPUT", "Simulation options are required.");
+  if (!Number.isFinite(options.tEnd)) return bad("NON_FINITE", "The end time must be a finite number of seconds.", "tEnd");
+  if (!(options.tEnd > 0)) return bad("TIME_SPAN", "The end time must be later than the start time (0 s).", "tEnd");
+  const prog = compileTemperatureProgram(options.temperature);
+  if (!prog.ok) return prog;
+  const grid = buildOutputTimes(options.grid ?? { kind: "log", points: 200 }, options.tEnd);
+  if (!grid.ok) return grid;
+
+  // initial concentrations
+  const c0 = new Float64Array(nS);
+  const init = options.initial;
+  if (init && typeof (init as ArrayLike<number>).length === "number") {
+    const arr = init as ArrayLike<number>;
+    if (arr.length !== nS) return bad("BAD_INITIAL", `The initial concentrations have ${arr.length} values but the mechanism has ${nS} species.`, "initial");
+    for (let i = 0; i < nS; i++) c0[i] = arr[i];
+  } else if (init && typeof init === "object") {
+    for (const [id, v] of Object.entries(init as Record<string, number>)) {
+      const i = model.speciesIndex.get(id);
+      if (i === undefined) return bad("UNKNOWN_SPECIES", `Initial concentration given for "${id}", which is not in the mechanism.`, `initial.${id}`);
+      c0[i] = v;
+    }
+  } else return bad("BAD_INITIAL", "Initial concentrations are required.", "initial");
+  for (let i = 0; i < nS; i++) {
+    if (!Number.isFinite(c0[i])) return bad("NON_FINITE", `The initial concentration of "${model.speciesIds[i]}" is not a finite number.`, `initial.${model.speciesIds[i]}`);
+    if (c0[i] < 0) return bad("NEGATIVE_CONCENTRATION", `The initial concentration of "${model.speciesIds[i]}" is negative.`, `initial.${model.speciesIds[i]}`);
+  }
+  const atol = options.atol ?? 1e-12;
+  if (!(atol > 0) || !Number.isFinite(atol)) return bad("BAD_TOLERANCE", "The absolute tolerance must be a positive finite number of mol/L.", "atol");
+
+  // rate-constant functions in model order
+  const fns: StepRateFunctions[] = [];
+  const rc = options.rateConstants;
+  if (Array.isArray(rc)) {
+    if (rc.length !== nR) return bad("BAD_RATE_CONSTANTS", `Rate constants were given for ${rc.length} steps but the mechanism has ${nR}.`, "rateConstants");
+    fns.push(...rc);
+  } else if (rc && typeof rc === "object") {
+    for (const id of model.reactionIds) {
+      const f = (rc as Record<string, StepRateFunctions>)[id];
+      if (!f) return bad("BAD_RATE_CONSTANTS", `No rate constant was given for step "${id}".`, `rateConstants.${id}`);
+      fns.push(f);
+    }
+  } else return bad("BAD_RATE_CONSTANTS", "Rate constants are required.", "rateConstants");
+  for (let r = 0; r < nR; r++) {
+    if (typeof fns[r]?.kf !== "function") return bad("BAD_RATE_CONSTANTS", `Step "${model.reactionIds[r]}" has no forward rate-constant function.`, `rateConstants.${model.reactionIds[r]}.kf`);
+    if (model.reversible[r] && typeof fns[r].kr !== "function") return bad("MISSING_REVERSE", `Step "${model.reactionIds[r]}" is reversible but has no reverse rate-constant function.`, `rateConstants.${model.reactionIds[r]}.kr`);
+  }
+  const kf = new Float64Array(nR);
+  const kr = new Float64Array(nR);
+  let lastT = NaN;
+  let rateProblem: SimulationError | null = null;
+  const setT = (T: number): boolean => {
+    if (T === lastT) return true;
+    for (let r = 0; r < nR; r++) {
+      const a = fns[r].kf(T);
+      const b = model.reversible[r] ? fns[r].kr!(T) : 0;
+      if (!Number.isFinite(a) || a < 0 || !Number.isFinite(b) || b < 0) {
+        rateProblem = { code: "BAD_RATE_CONSTANT", message: `Step "${model.reactionIds[r]}" has a rate constant that is negative or not finite at ${T} K.`, path: `rateConstants.${model.reactionIds[r]}` };
+        return false;
+      }
+      kf[r] = a;
+      kr[r] = b;
+    }
+    lastT = T;
+    return true;
+  };
+  // check the rate constants at every temperature the program visits at a corner
+  const Ts = new Set([prog.value.T(0), prog.value.T(options.tEnd), ...prog.value.breakpoints.map((b) => prog.value.T(b))]);
+  for (const T of Ts) if (!setT(T)) return { ok: false, error: rateProblem! };
+
+  const T = prog.value.T;
+  const problem: OdeProblem = {
+    n: nS,
+    autonomous: prog.value.constant,
+    rhs(t, y, dy) {
+      if (!setT(T(t))) dy.fill(NaN);
+      else model.rhs(y, kf, kr, dy);
+    },
+    jacobian: {
+      kind: "sparse",
+      rowPtr: model.jacobianPattern.rowPtr,
+      colIdx: model.jacobianPattern.colIdx,
+      fill(t, y, values) {
+        if (!setT(T(t))) values.fill(NaN);
+        else model.jacobian(y, kf, kr, values);
+      },
+    },
+  };
+  const intOpts = {
+    rtol: options.rtol ?? 1e-6,
+    atol,
+    outputTimes: grid.value,
+    breakpoints: prog.value.breakpoints,
+    maxSteps: options.maxSteps,
+    maxWallMs: options.maxWallMs,
+    now: options.now,
+    signal: options.signal,
+    onProgress: options.onProgress,
+    onStep: options.onStep,
+    nonNegative: true,
+    linearSolver: options.linearSolver,
+  };
+  const out = (options.method ?? "stiff") === "nonstiff" ? integrateNonStiff(problem, 0, c0, options.tEnd, intOpts) : integrateStiff(problem, 0, c0, options.tEnd, intOpts);
+
+  const doLaws = options.conservation ?? nS <= 400;
+  const laws = doLaws ? model.conservationLaws() : [];
+  const assemble = (times: Float64Array, states: Float64Array, stats: IntegrationStats): SimulationResult => {
+    const K = times.length;
+    const conc: Float64Array[] = [];
+    for (let i = 0; i < nS; i++) {
+      const a = new Float64Array(K);
+      for (let k = 0; k < K; k++) a[k] = states[k * nS + i];
+      conc.push(a);
+    }
+    const temps = new Float64Array(K);
+    for (let k = 0; k < K; k++) temps[k] = T(times[k]);
+    const drift: ConservationDrift[] = [];
+    let maxDrift = 0;
+    for (const w of laws) {
+      let L0 = 0, scale = 0;
+      for (let i = 0; i < nS; i++) ((L0 += w[i] * c0[i]), (scale += Math.abs(w[i]) * c0[i]));
+      let m = 0;
+      for (let k = 0; k < K; k++) {
+        let L = 0;
+        for (let i = 0; i < nS; i++) L += w[i] * states[k * nS + i];
+        const d = Math.abs(L - L0) / (scale > 0 ? scale : 1);
+        if (d > m) m = d;
+      }
+      drift.push({ law: w, maxRelDrift: m });
+      if (m > maxDrift) maxDrift = m;
+    }
+    const warnings = [...model.warnings];
+    if (maxDrift > 100 * (options.rtol ?? 1e-6)) warnings.push(`Conservation drift reached ${maxDrift.toExponential(2)} (relative), above 100 × rtol.`);
+    return { speciesIds: model.speciesIds, times, conc, temperatures: temps, stats, drift, maxDrift, warnings };
+  };
+  if (rateProblem) return { ok: false, error: rateProblem };
+  if (!out.ok) {
+    const e = out.error;
+    const err: SimulationError = { code: e.code, message: e.message, reason: e.reason };
+    if (e.path) err.path = e.path;
+    if (e.partial) err.partial = assemble(e.partial.times, e.partial.states, e.partial.stats);
+    return { ok: false, error: err };
+  }
+  return { ok: true, value: assemble(out.value.times, out.value.states, out.value.stats) };
+}
