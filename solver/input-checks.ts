@@ -39,7 +39,7 @@ export function ok<T>(value: T): Result<T> {
 export function joinPath(prefix: string, field: string): string {
   if (prefix === "") return field;
   if (field === "") return prefix;
-  return `${prefix}.${field}`;
+  return field.startsWith("[") ? `${prefix}${field}` : `${prefix}.${field}`;
 }
 
 /** Checks that a value is a finite number; returns an error result or null. */
