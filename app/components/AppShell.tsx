@@ -1,0 +1,79 @@
+/** The frame around every page: brand, main navigation, account menu. */
+import type { ReactNode } from "react";
+import { Form, Link, NavLink } from "react-router";
+import { Wordmark } from "./Logo";
+
+export interface ShellUser {
+  id: number;
+  name: string;
+  email: string;
+  role: string;
+}
+
+const NAV = [
+  { to: "/library", label: "Library" },
+  { to: "/mechanisms", label: "Mechanisms" },
+  { to: "/runs", label: "Runs" },
+  { to: "/data", label: "Data" },
+];
+
+function navClass({ isActive }: { isActive: boolean }) {
+  return [
+    "rounded-md px-3 py-1.5 text-sm font-medium transition-colors",
+    isActive ? "bg-ink-700 text-white" : "text-ink-200 hover:bg-ink-800 hover:text-white",
+  ].join(" ");
+}
+
+export function AppShell({ user, csrf, children }: { user: ShellUser | null; csrf?: string; children: ReactNode }) {
+  return (
+    <div className="flex min-h-screen flex-col">
+      <header className="bg-ink-900 text-white">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-2.5">
+          <Link to="/" aria-label="Saddlebook home">
+            <Wordmark />
+          </Link>
+          <nav aria-label="Main" className="flex flex-wrap items-center gap-1">
+            {NAV.map((n) => (
+              <NavLink key={n.to} to={n.to} className={navClass}>
+                {n.label}
+              </NavLink>
+            ))}
+          </nav>
+          <div className="ml-auto">
+            {user ? (
+              <details className="relative">
+                <summary className="cursor-pointer list-none rounded-md px-3 py-1.5 text-sm text-ink-100 hover:bg-ink-800">
+                  {user.name} <span className="text-ink-300">· {user.role}</span>
+                </summary>
+                <div className="absolute right-0 z-50 mt-1 w-52 rounded-md border border-ink-200 bg-white py-1 text-sm text-ink-900 shadow-lg">
+                  <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/settings">
+                    Settings and API tokens
+                  </Link>
+                  {user.role === "admin" && (
+                    <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/admin/users">
+                      Users and groups
+                    </Link>
+                  )}
+                  <Form method="post" action="/sign-out">
+                    {csrf && <input type="hidden" name="csrf" value={csrf} />}
+                    <button className="block w-full px-3 py-1.5 text-left hover:bg-ink-50" type="submit">
+                      Sign out
+                    </button>
+                  </Form>
+                </div>
+              </details>
+            ) : (
+              <Link to="/sign-in" className="btn-primary">
+                Sign in
+              </Link>
+            )}
+          </div>
+        </div>
+      </header>
+      <main className="mx-auto w-full max-w-7xl flex-1 px-4 py-6">{children}</main>
+      <footer className="border-t border-ink-200 py-3 text-center text-xs text-ink-500">
+        Saddlebook · model predictions are estimates; check them against measurement.
+      </footer>
+    </div>
+  );
+}

@@ -1,0 +1,84 @@
+import {
+  isRouteErrorResponse,
+  Links,
+  Meta,
+  Outlet,
+  Scripts,
+  ScrollRestoration,
+  useRouteLoaderData,
+} from "react-router";
+import type { Route } from "./+types/root";
+import "@fontsource/noto-sans/400.css";
+import "@fontsource/noto-sans/500.css";
+import "@fontsource/noto-sans/600.css";
+import "@fontsource/noto-sans/700.css";
+import "./app.css";
+import { AppShell } from "./components/AppShell";
+import { getOptionalUser } from "./auth/current-user.server";
+
+export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getOptionalUser(request);
+  return { user };
+}
+
+export function Layout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <Meta />
+        <Links />
+      </head>
+      <body>
+        {children}
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App({ loaderData }: Route.ComponentProps) {
+  return (
+    <AppShell user={loaderData.user}>
+      <Outlet />
+    </AppShell>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  const data = useRouteLoaderData<typeof loader>("root");
+  let title = "Something went wrong";
+  let detail = "The page could not be shown. Nothing you saved has been lost; try again, or go back.";
+  if (isRouteErrorResponse(error)) {
+    if (error.status === 404) {
+      title = "Page not found";
+      detail = "There is nothing at this address. It may have been moved, or the link may be mistyped.";
+    } else if (error.status === 403) {
+      title = "Not allowed";
+      detail = typeof error.data === "string" && error.data ? error.data : "Your role does not allow this.";
+    } else {
+      title = `${error.status} ${error.statusText}`;
+      detail = typeof error.data === "string" && error.data ? error.data : detail;
+    }
+  } else if (import.meta.env.DEV && error instanceof Error) {
+    detail = error.message;
+  }
+  return (
+    <AppShell user={data?.user ?? null}>
+      <div className="panel mx-auto mt-10 max-w-xl">
+        <h1 className="text-xl font-semibold text-ink-900">{title}</h1>
+        <p className="mt-2 text-ink-700">{detail}</p>
+        <a href="/" className="btn-quiet mt-4">
+          Back to the start page
+        </a>
+        {import.meta.env.DEV && error instanceof Error && error.stack && (
+          <pre className="mt-4 overflow-x-auto rounded bg-ink-50 p-3 text-xs">{error.stack}</pre>
+        )}
+      </div>
+    </AppShell>
+  );
+}

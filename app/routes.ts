@@ -1,0 +1,15 @@
+import { type RouteConfig, index, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("library", "routes/library.tsx"),
+  route("mechanisms", "routes/mechanisms.tsx"),
+  route("runs", "routes/runs.tsx"),
+  route("data", "routes/data.tsx"),
+
+  // REST API (resource routes)
+  route("api/v1/health", "routes/api.v1.health.ts"),
+  route("api/v1/*", "routes/api.v1.not-found.ts"),
+
+  route("*", "routes/not-found.tsx"),
+] satisfies RouteConfig;

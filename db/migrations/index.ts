@@ -1,0 +1,30 @@
+/**
+ * The ordered list of migrations. Knex reads them from here rather than from the
+ * file system, so the same list works under tsx, vitest and the built server.
+ * Append new migrations at the end; never edit one that has shipped.
+ */
+import type { Knex } from "knex";
+import * as m0001 from "./0001_identity";
+
+interface Migration {
+  up(knex: Knex): Promise<void>;
+  down(knex: Knex): Promise<void>;
+}
+
+const list: Array<[string, Migration]> = [
+  ["0001_identity", m0001],
+];
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  async getMigrations() {
+    return list.map(([name]) => name);
+  },
+  getMigrationName(name) {
+    return name;
+  },
+  async getMigration(name) {
+    const found = list.find(([n]) => n === name);
+    if (!found) throw new Error(`Unknown migration ${name}`);
+    return found[1];
+  },
+};
