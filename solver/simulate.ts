@@ -9,7 +9,7 @@ import type { IntegrationError, IntegrationStats, OdeProblem, StepView } from ".
 import { integrateStiff } from "./rosenbrock.ts";
 import { integrateNonStiff } from "./nonstiff.ts";
 import { compileTemperatureProgram, type TemperatureProgram } from "./temperature-program.ts";
-import { buildOutputTimes, type OutputGrid } from "./output-grid.ts";
+import { buildOutputTimes, conversionTarget, watchDownwardCrossing, type CrossingWatcher, type OutputGrid } from "./output-grid.ts";
 
 /** Rate constants of one step as functions of temperature T (K) → (mol/L)^(1−m) s⁻¹. */
 export interface StepRateFunctions {
@@ -41,6 +41,26 @@ export interface SimulateOptions {
   linearSolver?: "auto" | "dense" | "sparse";
   /** Compute conservation-law drift; default true when the mechanism has ≤ 400 species. */
   conservation?: boolean;
+  /**
+   * Times to reach given fractional conversions (0 < conversion < 1) of species, located on
+   * the stiff integrator's dense output (bisection to 1e-12 relative in time); with the
+   * non-stiff method, by linear interpolation between output times.
+   */
+  conversionEvents?: ConversionEventRequest[];
+}
+
+export interface ConversionEventRequest {
+  species: string;
+  /** Fraction 0–1 of the initial concentration consumed, e.g. 0.5 for the half-life. */
+  conversion: number;
+}
+
+export interface ConversionEvent extends ConversionEventRequest {
+  /** s; null when the conversion is not reached by tEnd. */
+  time: number | null;
+  /** mol/L, the concentration that marks the event. */
+  target: number;
+  located: "dense-output" | "output-grid";
 }
 
 export interface ConservationDrift {
@@ -60,6 +80,8 @@ export interface SimulationResult {
   drift: ConservationDrift[];
   maxDrift: number;
   warnings: string[];
+  /** One entry per requested conversion event, in request order. */
+  events: ConversionEvent[];
 }
 
 export type SimulationError = EngineError & { reason?: IntegrationError["reason"]; partial?: SimulationResult };
@@ -100,6 +122,31 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
   }
   const atol = options.atol ?? 1e-12;
   if (!(atol > 0) || !Number.isFinite(atol)) return bad("BAD_TOLERANCE", "The absolute tolerance must be a positive finite number of mol/L.", "atol");
+
+  // conversion events
+  const evReq = options.conversionEvents ?? [];
+  if (!Array.isArray(evReq)) return bad("BAD_EVENT", "Conversion events must be a list.", "conversionEvents");
+  const evIndex: number[] = [];
+  const evTarget: number[] = [];
+  for (let e = 0; e < evReq.length; e++) {
+    const q = evReq[e];
+    const i = q ? model.speciesIndex.get(q.species) : undefined;
+    if (i === undefined) return bad("UNKNOWN_SPECIES", `A conversion event names species "${String(q?.species)}", which is not in the mechanism.`, `conversionEvents[${e}].species`);
+    if (!(q.conversion > 0 && q.conversion < 1)) return bad("BAD_EVENT", "A conversion must be a fraction strictly between 0 and 1.", `conversionEvents[${e}].conversion`);
+    if (!(c0[i] > 0)) return bad("BAD_EVENT", `Species "${q.species}" starts at zero concentration, so its conversion is undefined.`, `conversionEvents[${e}].species`);
+    evIndex.push(i);
+    evTarget.push(conversionTarget(c0[i], q.conversion));
+  }
+  const useStiff = (options.method ?? "stiff") !== "nonstiff";
+  const watchers: CrossingWatcher[] = useStiff ? evIndex.map((i, e) => watchDownwardCrossing(nS, i, evTarget[e])) : [];
+  const userOnStep = options.onStep;
+  const onStep =
+    watchers.length > 0
+      ? (v: StepView) => {
+          for (const w of watchers) w.onStep(v);
+          if (userOnStep) userOnStep(v);
+        }
+      : userOnStep;
 
   // rate-constant functions in model order
   const fns: StepRateFunctions[] = [];
@@ -169,11 +216,11 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     now: options.now,
     signal: options.signal,
     onProgress: options.onProgress,
-    onStep: options.onStep,
+    onStep,
     nonNegative: true,
     linearSolver: options.linearSolver,
   };
-  const out = (options.method ?? "stiff") === "nonstiff" ? integrateNonStiff(problem, 0, c0, options.tEnd, intOpts) : integrateStiff(problem, 0, c0, options.tEnd, intOpts);
+  const out = useStiff ? integrateStiff(problem, 0, c0, options.tEnd, intOpts) : integrateNonStiff(problem, 0, c0, options.tEnd, intOpts);
 
   const doLaws = options.conservation ?? nS <= 400;
   const laws = doLaws ? model.conservationLaws() : [];
@@ -204,7 +251,12 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     }
     const warnings = [...model.warnings];
     if (maxDrift > 100 * (options.rtol ?? 1e-6)) warnings.push(`Conservation drift reached ${maxDrift.toExponential(2)} (relative), above 100 × rtol.`);
-    return { speciesIds: model.speciesIds, times, conc, temperatures: temps, stats, drift, maxDrift, warnings };
+    const events: ConversionEvent[] = evReq.map((q, e) => {
+      const base = { species: q.species, conversion: q.conversion, target: evTarget[e] };
+      if (useStiff) return { ...base, time: watchers[e].time, located: "dense-output" as const };
+      return { ...base, time: gridCrossing(times, conc[evIndex[e]], evTarget[e]), located: "output-grid" as const };
+    });
+    return { speciesIds: model.speciesIds, times, conc, temperatures: temps, stats, drift, maxDrift, warnings, events };
   };
   if (rateProblem) return { ok: false, error: rateProblem };
   if (!out.ok) {
@@ -214,5 +266,27 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     if (e.partial) err.partial = assemble(e.partial.times, e.partial.states, e.partial.stats);
     return { ok: false, error: err };
   }
+  // never hand out NaN or negative concentrations beyond the tolerance
+  const st = out.value.states;
+  for (let q = 0; q < st.length; q++) {
+    const v = st[q];
+    if (!Number.isFinite(v)) return bad("NON_FINITE", "The solution contains a value that is not a finite number; tighten the tolerances or check the rate constants.");
+    if (v < -atol) {
+      return bad("NEGATIVE_CONCENTRATION", `The concentration of "${model.speciesIds[q % nS]}" fell below −atol; use the stiff method or tighter tolerances.`);
+    }
+    if (v < 0) st[q] = 0;
+  }
   return { ok: true, value: assemble(out.value.times, out.value.states, out.value.stats) };
+}
+
+/** First time (s) at which c falls to `target` (mol/L), by linear interpolation on a grid; null if never. */
+function gridCrossing(times: Float64Array, c: Float64Array, target: number): number | null {
+  if (c.length > 0 && c[0] <= target) return times[0];
+  for (let k = 1; k < c.length; k++) {
+    if (c[k] <= target) {
+      const f = (c[k - 1] - target) / (c[k - 1] - c[k]);
+      return times[k - 1] + f * (times[k] - times[k - 1]);
+    }
+  }
+  return null;
 }
