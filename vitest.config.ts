@@ -13,6 +13,7 @@ export default defineConfig({
   test: {
     include: ["tests/**/*.test.ts"],
     environment: "node",
+    globalSetup: ["tests/support/global-setup.ts"],
     testTimeout: 30_000,
     hookTimeout: 120_000,
     fileParallelism: true,

@@ -1,0 +1,62 @@
+/** Starts the built app (react-router-serve) or Vite's dev server as a child process. */
+import { spawn, type ChildProcess } from "node:child_process";
+import { resolve } from "node:path";
+import { projectRoot } from "./env";
+import { portAnswers } from "./ports";
+
+export interface AppServer {
+  url: string;
+  child: ChildProcess;
+  stop(): Promise<void>;
+}
+
+export async function startAppServer(opts: {
+  port: number;
+  env: Record<string, string>;
+  dev?: boolean;
+  quiet?: boolean;
+}): Promise<AppServer> {
+  const host = "127.0.0.1";
+  const bin = resolve(projectRoot, "node_modules/.bin", opts.dev ? "react-router" : "react-router-serve");
+  const args = opts.dev ? ["dev", "--host", host, "--port", String(opts.port), "--strictPort"] : ["build/server/index.js"];
+  const child = spawn(bin, args, {
+    cwd: projectRoot,
+    env: {
+      ...process.env,
+      ...opts.env,
+      HOST: host,
+      PORT: String(opts.port),
+      NODE_ENV: opts.dev ? "development" : "production",
+    },
+    // Its own process group: Ctrl-C reaches this script, which stops the server in order.
+    detached: true,
+    stdio: opts.quiet ? ["ignore", "ignore", "inherit"] : ["ignore", "inherit", "inherit"],
+  });
+  let exited = false;
+  child.once("exit", () => {
+    exited = true;
+  });
+  const url = `http://${host}:${opts.port}`;
+  const deadline = Date.now() + 60_000;
+  while (!(await portAnswers(opts.port, host))) {
+    if (exited) throw new Error("The app server stopped while starting (see the messages above).");
+    if (Date.now() > deadline) {
+      child.kill("SIGTERM");
+      throw new Error("The app server did not answer within 60 s.");
+    }
+    await new Promise((r) => setTimeout(r, 150));
+  }
+  return {
+    url,
+    child,
+    stop: () =>
+      new Promise<void>((done) => {
+        if (exited) return done();
+        child.once("exit", () => done());
+        child.kill("SIGTERM");
+        setTimeout(() => {
+          if (!exited) child.kill("SIGKILL");
+        }, 5000).unref();
+      }),
+  };
+}

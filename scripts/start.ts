@@ -1,0 +1,104 @@
+/**
+ * `npm start` (production build) and `npm run dev` (Vite dev server).
+ *
+ * Ensures the database (the embedded MariaDB unless DATABASE_URL is set), migrates it,
+ * seeds the illustrative demo scenario into an empty database, builds the app when the
+ * build is missing or stale, starts the local fakes of hosted services, and serves the
+ * app on 127.0.0.1:PORT. Ctrl-C stops everything this script started.
+ */
+import knexFactory from "knex";
+import { ConfigProblem, failWith, loadDotEnv } from "./env";
+import { ensureDatabase, type DatabaseHandle } from "./mariadb";
+import { portFree } from "./ports";
+import { buildApp, buildIsCurrent } from "./build-state";
+import { startAppServer, type AppServer } from "./app-server";
+import { startDevServices, type DevServices } from "./dev-services";
+import { sessionSecret } from "./session-secret";
+import { knexConfigFromUrl } from "../db/config";
+import { migrateLatest } from "../db/migrate";
+import { isEmpty, seedDemo } from "../db/seeds/index";
+import { DEMO_PASSWORD, DEMO_USERS } from "../db/seeds/demo-identities";
+
+const dev = process.argv.includes("--dev");
+const log = (line: string) => console.log(line);
+
+let database: DatabaseHandle | undefined;
+let services: DevServices | undefined;
+let app: AppServer | undefined;
+let stopping = false;
+
+async function shutdown(code: number): Promise<never> {
+  if (!stopping) {
+    stopping = true;
+    log("\nStopping…");
+    await app?.stop().catch(() => {});
+    await services?.stop().catch(() => {});
+    await database?.stop().catch(() => {});
+  }
+  process.exit(code);
+}
+
+process.on("SIGINT", () => void shutdown(0));
+process.on("SIGTERM", () => void shutdown(0));
+
+async function main(): Promise<void> {
+  loadDotEnv();
+  const portText = process.env.PORT ?? "3000";
+  const port = Number(portText);
+  if (!Number.isInteger(port) || port < 1 || port > 65535) {
+    throw new ConfigProblem(`PORT must be a port number from 1 to 65535 (got "${portText}").`);
+  }
+  if (!(await portFree(port))) {
+    throw new ConfigProblem(`Port ${port} on 127.0.0.1 is already in use: stop the program using it, or set PORT in .env to a free port.`);
+  }
+
+  database = await ensureDatabase("app");
+  const db = knexFactory(knexConfigFromUrl(database.url, { min: 0, max: 2 }));
+  try {
+    const applied = await migrateLatest(db);
+    if (applied.length) log(`Applied ${applied.length} migration(s).`);
+    if (await isEmpty(db)) {
+      log("Empty database: seeding the illustrative demo scenario…");
+      await seedDemo(db, log);
+    }
+  } finally {
+    await db.destroy();
+  }
+
+  if (!dev && !buildIsCurrent()) {
+    if (!buildApp(log)) throw new ConfigProblem("The app did not build: fix the errors printed above and start again.");
+  }
+
+  const appUrl = `http://127.0.0.1:${port}`;
+  services = await startDevServices({ log, appUrl, databaseUrl: database.url });
+  app = await startAppServer({
+    port,
+    dev,
+    env: {
+      ...services.env,
+      DATABASE_URL: database.url,
+      SESSION_SECRET: sessionSecret(),
+      APP_URL: process.env.APP_URL ?? appUrl,
+    },
+  });
+  app.child.once("exit", (code) => {
+    if (!stopping) {
+      console.error(`The app server stopped (exit code ${code}).`);
+      void shutdown(1);
+    }
+  });
+
+  log("");
+  log(`Saddlebook is running at ${app.url}/ ${dev ? "(development server)" : ""}`);
+  log(`Demo sign-in (illustrative data), password "${DEMO_PASSWORD}":`);
+  for (const u of DEMO_USERS) log(`  ${u.role.padEnd(8)} ${u.email}`);
+  for (const n of services.notes) log(n);
+  log("Press Ctrl-C to stop.");
+}
+
+main().catch(async (e) => {
+  await app?.stop().catch(() => {});
+  await services?.stop().catch(() => {});
+  await database?.stop().catch(() => {});
+  failWith(e);
+});

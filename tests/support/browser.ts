@@ -1,0 +1,73 @@
+/**
+ * Browser tests drive Debian's Chromium through playwright-core against the app that
+ * `npm test` serves (APP_URL). Screenshots go to test-results/ (not committed).
+ */
+import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+
+export const appUrl = (): string => {
+  const url = process.env.APP_URL;
+  if (!url) throw new Error("APP_URL is not set: browser tests run through `npm test`, which serves the app.");
+  return url;
+};
+
+/** True when the served app is available (npm test); browser suites skip otherwise. */
+export const hasApp = (): boolean => !!process.env.APP_URL;
+
+export interface BrowserSession {
+  context: BrowserContext;
+  page: Page;
+  /** Console errors and failed requests seen so far. */
+  problems: string[];
+  /** Every request URL the page made. */
+  requests: string[];
+  close(): Promise<void>;
+  screenshot(name: string): Promise<void>;
+}
+
+export async function openBrowser(): Promise<BrowserSession> {
+  const dir = mkdtempSync(join(tmpdir(), "saddlebook-browser-"));
+  const context = await chromium.launchPersistentContext(dir, {
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    viewport: { width: 1280, height: 860 },
+    args: [
+      "--headless",
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  const problems: string[] = [];
+  const requests: string[] = [];
+  page.on("console", (m) => {
+    if (m.type() === "error") problems.push(`console: ${m.text()}`);
+  });
+  page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
+  page.on("requestfailed", (r) => {
+    // Navigations away cancel pending requests; those are not failures of the app.
+    if (r.failure()?.errorText !== "net::ERR_ABORTED") problems.push(`request failed: ${r.url()} ${r.failure()?.errorText}`);
+  });
+  page.on("request", (r) => requests.push(r.url()));
+  const shots = resolve(import.meta.dirname, "../../test-results/screenshots");
+  return {
+    context,
+    page,
+    problems,
+    requests,
+    async close() {
+      await context.close();
+      rmSync(dir, { recursive: true, force: true });
+    },
+    async screenshot(name: string) {
+      mkdirSync(shots, { recursive: true });
+      await page.screenshot({ path: join(shots, `${name}.png`), fullPage: true });
+    },
+  };
+}
