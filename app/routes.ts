@@ -9,6 +9,8 @@ export default [
 
   // REST API (resource routes)
   route("api/v1/health", "routes/api.v1.health.ts"),
+  route("api/v1/rates", "routes/api.v1.rates.ts"),
+  route("api/v1/simulate", "routes/api.v1.simulate.ts"),
   route("api/v1/*", "routes/api.v1.not-found.ts"),
 
   route("*", "routes/not-found.tsx"),

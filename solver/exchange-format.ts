@@ -349,15 +349,114 @@ export function locateJsonPaths(src: string): Map<string, number> {
   return where;
 }
 
-/** Turns a JSON.parse failure into an issue with line and column (V8 reports "position N"). */
-function jsonSyntaxIssue(src: string, err: unknown): FormatIssue {
+/**
+ * Offset of the first syntax error of a JSON text (RFC 8259 grammar), or null when the text
+ * is valid. Used for line and column where the runtime's JSON.parse message has no position.
+ */
+export function jsonSyntaxErrorOffset(src: string): number | null {
+  let i = 0;
+  const n = src.length;
+  class Stop {
+    constructor(readonly at: number) {}
+  }
+  const stop = (at = i): never => {
+    throw new Stop(at);
+  };
+  const ws = () => {
+    while (i < n && (src[i] === " " || src[i] === "\t" || src[i] === "\n" || src[i] === "\r")) i++;
+  };
+  const str = () => {
+    if (src[i] !== '"') stop();
+    i++;
+    while (i < n && src[i] !== '"') {
+      const code = src.charCodeAt(i);
+      if (code < 0x20) stop();
+      if (src[i] === "\\") {
+        const e = src[i + 1];
+        if (e === "u") {
+          if (!/^[0-9a-fA-F]{4}$/.test(src.slice(i + 2, i + 6))) stop(i + 1);
+          i += 6;
+        } else if (e !== undefined && '"\\/bfnrt'.includes(e)) i += 2;
+        else stop(i + 1);
+      } else i++;
+    }
+    if (i >= n) stop();
+    i++;
+  };
+  const num = () => {
+    const m = /^-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?/.exec(src.slice(i, i + 400));
+    if (!m || m[0] === "" || m[0] === "-") stop();
+    i += m![0].length;
+  };
+  const value = (depth: number): void => {
+    if (depth > 1000) stop();
+    ws();
+    const ch = src[i];
+    if (ch === "{") {
+      i++;
+      ws();
+      if (src[i] === "}") return void i++;
+      for (;;) {
+        ws();
+        str();
+        ws();
+        if (src[i] !== ":") stop();
+        i++;
+        value(depth + 1);
+        ws();
+        if (src[i] === ",") i++;
+        else if (src[i] === "}") return void i++;
+        else stop();
+      }
+    }
+    if (ch === "[") {
+      i++;
+      ws();
+      if (src[i] === "]") return void i++;
+      for (;;) {
+        value(depth + 1);
+        ws();
+        if (src[i] === ",") i++;
+        else if (src[i] === "]") return void i++;
+        else stop();
+      }
+    }
+    if (ch === '"') return str();
+    if (ch === "-" || (ch !== undefined && ch >= "0" && ch <= "9")) return num();
+    for (const lit of ["true", "false", "null"]) {
+      if (src.startsWith(lit, i)) {
+        i += lit.length;
+        return;
+      }
+    }
+    stop();
+  };
+  try {
+    value(0);
+    ws();
+    return i < n ? i : null;
+  } catch (e) {
+    if (e instanceof Stop) return Math.min(e.at, n);
+    return null;
+  }
+}
+
+/** Line, column and a one-sentence reason for a JSON.parse failure of `src`. */
+export function describeJsonSyntaxError(src: string, err: unknown): { line: number; column: number; detail: string } {
   const raw = err instanceof Error ? err.message : String(err);
   const m = /position (\d+)/.exec(raw);
-  const offset = m ? Number(m[1]) : /end of JSON input/i.test(raw) ? src.length : null;
-  const detail = raw.replace(/\s*\(line \d+ column \d+\)/, "").replace(/ in JSON at position \d+/, "");
-  const issue: FormatIssue = { code: "json_syntax", path: "", message: `The text is not valid JSON: ${detail}.` };
-  if (offset !== null) Object.assign(issue, lineColumn(src, offset));
-  return issue;
+  const offset = m ? Number(m[1]) : (jsonSyntaxErrorOffset(src) ?? src.length);
+  const detail = raw
+    .replace(/\s*\(line \d+ column \d+\)/, "")
+    .replace(/ in JSON at position \d+/, "")
+    .replace(/, "[\s\S]*" is not valid JSON$/, "");
+  return { ...lineColumn(src, offset), detail };
+}
+
+/** Turns a JSON.parse failure into an issue with line and column (V8 reports "position N"). */
+function jsonSyntaxIssue(src: string, err: unknown): FormatIssue {
+  const { line, column, detail } = describeJsonSyntaxError(src, err);
+  return { code: "json_syntax", path: "", message: `The text is not valid JSON: ${detail}.`, line, column };
 }
 
 function zodIssues(error: z.ZodError): FormatIssue[] {

@@ -5,7 +5,9 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
+import fc from "fast-check";
 import {
+  jsonSyntaxErrorOffset,
   documentToEngine,
   engineToDocument,
   mechanismToText,
@@ -205,6 +207,33 @@ describe("strict errors with paths and line numbers", () => {
   it("truncated JSON reports the end of the text", () => {
     const r = parseMechanismText('{\n  "format": "saddlebook.mechanism",\n');
     expect(!r.ok && r.error.issues[0].line).toBe(3);
+  });
+});
+
+describe("JSON syntax error positions", () => {
+  it("points at the offending character", () => {
+    expect(jsonSyntaxErrorOffset('{"a": [1, 2,]}')).toBe(12);
+    expect(jsonSyntaxErrorOffset('{"a": tru}')).toBe(6);
+    expect(jsonSyntaxErrorOffset('{"a": 1} x')).toBe(9);
+    expect(jsonSyntaxErrorOffset('{"a": "\\u12"}')).not.toBeNull();
+    expect(jsonSyntaxErrorOffset('{"a": [1, 2.5e-3, "x\\n", null, false]}')).toBeNull();
+  });
+
+  it("agrees with the runtime's JSON.parse on valid and damaged texts (property check, fast-check)", () => {
+    fc.assert(
+      fc.property(fc.json(), fc.nat(), (text, cut) => {
+        expect(jsonSyntaxErrorOffset(text)).toBeNull();
+        const damaged = text.slice(0, cut % (text.length + 1)) + text.slice((cut % (text.length + 1)) + 1);
+        let valid = true;
+        try {
+          JSON.parse(damaged);
+        } catch {
+          valid = false;
+        }
+        expect(jsonSyntaxErrorOffset(damaged) === null).toBe(valid);
+      }),
+      { numRuns: 500 },
+    );
   });
 });
 

@@ -1,0 +1,118 @@
+/**
+ * POST /api/v1/rates — rate constants and every derived barrier form of one or more
+ * elementary steps (exchange-format step objects) at a list of temperatures.
+ *
+ * Request:  {"steps":[step…]} or {"step":step}, "temperatures":{"values":[…],"unit":"K"|"degC"|"°C"},
+ *           optional "units":{"energy":"kJ/mol"…,"entropy":"J/(mol K)"…} for the derived values.
+ * Response: {"temperatureUnit":"K","results":[{"id","molecularity","form","at":[{T, kForward, kReverse?,
+ *           equilibriumConstant?, derived:{dG,dH,dS,Ea,A,lnA,…}, relations, notes, extrapolated}]}]}
+ * k is in (mol/L)^(1−m)·s⁻¹ with its unit label; energies in the requested unit (default kJ/mol).
+ */
+import { z } from "zod";
+import { EnergyUnitSchema, EntropyUnitSchema, StepSchema, stepToEngine, type DocumentStep } from "../../solver/exchange-format";
+import { convertBarrier } from "../../solver/rates";
+import { reverseRateConstant } from "../../solver/detailed-balance";
+import { ENERGY_FACTORS, ENTROPY_FACTORS, type EnergyUnit, type EntropyUnit } from "../../solver/units";
+import { engineFailure, invalidBody, jsonResponse, readJsonBody, zodFields } from "./json-request.server";
+import { TemperatureUnitSchema, requestPath, toKelvin } from "./compute-common.server";
+import { apiError } from "./errors.server";
+
+/** At most this many (step, temperature) pairs per request. */
+export const RATES_MAX_PAIRS = 100_000;
+
+export const RatesRequestSchema = z
+  .strictObject({
+    step: StepSchema.optional(),
+    steps: z.array(StepSchema).min(1).max(10_000).optional(),
+    temperatures: z.strictObject({
+      values: z.array(z.number()).min(1).max(1000),
+      unit: TemperatureUnitSchema,
+    }),
+    units: z.strictObject({ energy: EnergyUnitSchema.optional(), entropy: EntropyUnitSchema.optional() }).optional(),
+  })
+  .superRefine((body, ctx) => {
+    if ((body.step === undefined) === (body.steps === undefined)) {
+      ctx.addIssue({ code: "custom", path: ["steps"], message: 'Give either "step" (one step) or "steps" (a list), not both or neither.' });
+    }
+  });
+export type RatesRequest = z.infer<typeof RatesRequestSchema>;
+
+function quantity(value: number, unit: string) {
+  return { value, unit };
+}
+
+export async function handleRates(request: Request): Promise<Response> {
+  const body = await readJsonBody(request);
+  if (!body.ok) return body.response;
+  const parsed = RatesRequestSchema.safeParse(body.value);
+  if (!parsed.success) return invalidBody(zodFields(parsed.error, body.text));
+  const req = parsed.data;
+  const single = req.step !== undefined;
+  const docSteps: DocumentStep[] = single ? [req.step!] : req.steps!;
+  const stepPath = (i: number) => (single ? "step" : `steps[${i}]`);
+  const pairs = docSteps.length * req.temperatures.values.length;
+  if (pairs > RATES_MAX_PAIRS) {
+    return apiError(413, "too_many_values", `The request asks for ${pairs} rate constants; the limit is ${RATES_MAX_PAIRS} (steps × temperatures).`, {
+      temperatures: `steps × temperatures must not exceed ${RATES_MAX_PAIRS}`,
+    });
+  }
+
+  const temps: number[] = [];
+  for (let j = 0; j < req.temperatures.values.length; j++) {
+    const path = `temperatures.values[${j}]`;
+    const T = toKelvin(req.temperatures.values[j], req.temperatures.unit, path);
+    if (!T.ok) return engineFailure(T.error, path);
+    temps.push(T.value);
+  }
+  const eUnit: EnergyUnit = req.units?.energy ?? "kJ/mol";
+  const sUnit: EntropyUnit = req.units?.entropy ?? "J/(mol K)";
+  const e = (v: number) => quantity(v / ENERGY_FACTORS[eUnit], eUnit);
+  const s = (v: number) => quantity(v / ENTROPY_FACTORS[sUnit], sUnit);
+
+  const results = [];
+  for (let i = 0; i < docSteps.length; i++) {
+    const step = stepToEngine(docSteps[i], stepPath(i));
+    if (!step.ok) return engineFailure(step.error, step.error.path);
+    const at = [];
+    let molecularity = 0;
+    for (let j = 0; j < temps.length; j++) {
+      const T = temps[j];
+      const conv = convertBarrier(step.value, T, stepPath(i));
+      if (!conv.ok) return engineFailure(conv.error, requestPath(conv.error.path === "T" ? `temperatures.values[${j}]` : conv.error.path, ""));
+      const c = conv.value;
+      molecularity = c.molecularity;
+      const entry: Record<string, unknown> = {
+        T: quantity(T, "K"),
+        kForward: { value: c.k, unit: c.units, ln: c.lnk },
+      };
+      if (step.value.thermo) {
+        const rev = reverseRateConstant(step.value, T, stepPath(i));
+        if (!rev.ok) return engineFailure(rev.error, requestPath(rev.error.path, ""));
+        const r = rev.value;
+        entry.kReverse = { value: r.kRev, unit: r.unitsRev, ln: r.lnkRev };
+        entry.equilibriumConstant = { value: r.Kc, unit: r.units, ln: r.lnKc, K0: r.K0, dGrxn: e(r.dGrxn), standardState: r.standardState };
+        entry.reverseRelations = r.relations;
+      }
+      entry.derived = {
+        standardState: c.standardState,
+        standardConcentration: quantity(c.standardConcentration, "mol/L"),
+        dG: e(c.dG),
+        dH: e(c.dH),
+        dS: s(c.dS),
+        Ea: e(c.Ea),
+        A: quantity(c.A, c.units),
+        lnA: c.lnA,
+        dGEntered: c.dGSource === null ? null : { ...e(c.dGSource), standardState: c.sourceStandardState },
+        standardStateShift: e(c.standardStateShift),
+      };
+      entry.kappa = c.kappa;
+      entry.kappaWigner = c.kappaWigner;
+      entry.extrapolated = c.extrapolated;
+      entry.relations = c.relations;
+      entry.notes = c.notes;
+      at.push(entry);
+    }
+    results.push({ id: docSteps[i].id, molecularity, form: docSteps[i].barrier.form, at });
+  }
+  return jsonResponse({ temperatureUnit: "K", energyUnit: eUnit, entropyUnit: sUnit, results });
+}

@@ -1,0 +1,15 @@
+/** POST /api/v1/simulate — concentrations against time; see app/api/compute-simulate.server.ts. */
+import { computeAccess } from "~/api/compute-access.server";
+import { handleSimulate } from "~/api/compute-simulate.server";
+import { methodNotAllowed } from "~/api/json-request.server";
+import type { Route } from "./+types/api.v1.simulate";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  return methodNotAllowed(request);
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  if (request.method !== "POST") return methodNotAllowed(request);
+  await computeAccess(request);
+  return handleSimulate(request);
+}
