@@ -1,5 +1,5 @@
 /** POST /api/v1/simulate — concentrations against time; see app/api/compute-simulate.server.ts. */
-import { computeAccess } from "~/api/compute-access.server";
+import { requireApiUser } from "~/auth/api-auth.server";
 import { handleSimulate } from "~/api/compute-simulate.server";
 import { methodNotAllowed } from "~/api/json-request.server";
 import type { Route } from "./+types/api.v1.simulate";
@@ -10,6 +10,6 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed(request);
-  await computeAccess(request);
+  await requireApiUser(request); // token or session; a refusal is a thrown 401 JSON response
   return handleSimulate(request);
 }

@@ -3,8 +3,24 @@
  * (no server). Rate constants are checked against the Eyring equation evaluated here from
  * the CODATA 2018 exact constants.
  */
-import { describe, expect, it } from "vitest";
+import { afterEach, describe, expect, it, vi } from "vitest";
 import { action, loader } from "../../app/routes/api.v1.rates";
+
+// The API's authentication (app/auth/api-auth.server.ts) is replaced by a switchable stand-in:
+// signed in by default, signed out where a test says so.
+const auth = vi.hoisted(() => ({ signedIn: true }));
+vi.mock("~/auth/api-auth.server", async () => {
+  const { apiError } = await import("~/api/errors.server");
+  return {
+    requireApiUser: async () => {
+      if (!auth.signedIn) throw apiError(401, "unauthorized", "Sign in, or send an API token.");
+      return { id: 1, email: "kinetics@example.test", name: "Test user", role: "author", groupIds: [], adminGroupIds: [] };
+    },
+  };
+});
+afterEach(() => {
+  auth.signedIn = true;
+});
 
 // CODATA 2018 exact values (SI 2019 redefinition; NIST CODATA 2018 recommended values).
 const K_B = 1.380649e-23; // J/K
@@ -17,7 +33,7 @@ const URL_ = "http://localhost/api/v1/rates";
 
 async function post(body: unknown, raw = false): Promise<{ status: number; json: any; text: string }> {
   const request = new Request(URL_, { method: "POST", headers: { "Content-Type": "application/json" }, body: raw ? (body as string) : JSON.stringify(body) });
-  const res = (await action({ request, params: {}, context: {} } as unknown as Args)) as Response;
+  const res = (await action({ request, params: {}, context: {} } as unknown as Args).catch((thrown: unknown) => thrown)) as Response;
   const text = await res.text();
   return { status: res.status, json: JSON.parse(text), text };
 }
@@ -95,6 +111,14 @@ describe("POST /api/v1/rates", () => {
 });
 
 describe("POST /api/v1/rates: bad requests get the one error shape", () => {
+  it("a caller who is not signed in gets 401 in the error shape", async () => {
+    auth.signedIn = false;
+    const { status, json } = await post({});
+    expect(status).toBe(401);
+    expectErrorShape(json);
+    expect(json.error.code).toBe("unauthorized");
+  });
+
   it("GET is 405 with Allow: POST", async () => {
     const res = (await loader({ request: new Request(URL_), params: {}, context: {} } as unknown as Parameters<typeof loader>[0])) as Response;
     expect(res.status).toBe(405);
