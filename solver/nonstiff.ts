@@ -4,7 +4,7 @@
  * integrator, for non-stiff problems and cross-checks.
  * Units: as the problem's (t in s, y in mol/L for kinetics).
  */
-import * as odexModule from "odex/src/odex.js";
+import { Solver as OdexSolverClass } from "./odex-binding.js";
 import type { Solver as OdexSolver } from "odex";
 import {
   defaultNow,
@@ -18,10 +18,7 @@ import {
 import { validateIntegrationInput } from "./rosenbrock.ts";
 
 type SolverCtor = new (n: number) => OdexSolver;
-// odex is CommonJS: named exports under Node ESM, or under `default` with some bundlers.
-const SolverClass: SolverCtor =
-  (odexModule as unknown as { Solver?: SolverCtor }).Solver ??
-  (odexModule as unknown as { default: { Solver: SolverCtor } }).default.Solver;
+const SolverClass: SolverCtor = OdexSolverClass;
 
 /** Integrate y' = f(t, y) from t0 to tEnd with odex (non-stiff). The Jacobian is not used. */
 export function integrateNonStiff(

@@ -87,6 +87,8 @@ export interface BarrierConversion {
   A: number;
   lnA: number;
   extrapolated: boolean;
+  /** The relation between Ea and ΔH‡ used at T, short display text, e.g. "Ea = ΔH‡ + RT". */
+  eaRelation: string;
   /** Each relation used, as display text. */
   relations: string[];
   notes: string[];
@@ -179,6 +181,7 @@ export function convertBarrier(step: StepKinetics, T: number, path = "step"): Re
   if (c.wigner !== 0) relations.push("κ_W = 1 + (1/24)·(h·c·ν̃‡/(k_B·T))²");
   relations.push("Ea = RT²·d ln k/dT (local Arrhenius energy)");
   const wignerTerm = c.wigner !== 0 ? " + RT²·d ln κ_W/dT" : "";
+  const eaRelation = g === 0 ? `Ea = ΔH‡ + RT${wignerTerm}` : `Ea = ΔH‡ + ${m === 1 ? "" : m}RT${wignerTerm}`;
   if (g === 0) relations.push(`Ea = ΔH‡ + RT${wignerTerm} (1 mol/L standard state, PΔV‡ ≈ 0)`);
   else relations.push(`Ea = ΔH‡ + (1−Δn‡)·RT${wignerTerm}, Δn‡ = 1−m = ${1 - m} (ideal-gas standard state)`);
   relations.push("A = k·exp(Ea/RT)");
@@ -215,6 +218,7 @@ export function convertBarrier(step: StepKinetics, T: number, path = "step"): Re
     A: Math.exp(lnA),
     lnA,
     extrapolated,
+    eaRelation,
     relations,
     notes,
   });

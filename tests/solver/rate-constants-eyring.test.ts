@@ -144,6 +144,7 @@ describe("textbook relations", () => {
     expect(c.dH).toBeCloseTo(90e3, 6);
     expect(c.dS).toBeCloseTo(-15, 8);
     expect(numericEa(s, T)).toBeCloseTo(c.Ea, 1);
+    expect(c.eaRelation).toBe("Ea = ΔH‡ + RT");
   });
 
   it("Ea = ΔH‡ + RT in the 1 M state for a bimolecular step too (PΔV‡ ≈ 0 in solution)", () => {
@@ -167,6 +168,7 @@ describe("textbook relations", () => {
       const cst = get(standardConcentration("1bar", T));
       expect(c.Ea).toBeCloseTo(Ea, 6);
       expect(c.dH).toBeCloseTo(Ea - (1 - dn) * R_GAS * T, 6);
+      expect(c.eaRelation).toBe(m === 1 ? "Ea = ΔH‡ + RT" : `Ea = ΔH‡ + ${m}RT`);
       const Atext = Math.exp(1 - dn) * KB_OVER_H * T * Math.exp(dS / R_GAS) * Math.pow(cst, 1 - m);
       expect(c.A / Atext).toBeCloseTo(1, 10);
       expect(c.dS).toBeCloseTo(dS, 8);

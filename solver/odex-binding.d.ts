@@ -1,0 +1,2 @@
+/** Types of the runtime binding in odex-binding.js: the odex Solver class. */
+export { Solver } from "odex";
