@@ -10,22 +10,24 @@
  *      "initial": {"<species id>": {"value","unit":"mol/L"|"mmol/L"|"umol/L"|"molecules/cm3"|"Pa"|"bar"|"atm"}},
  *      "endTime": {"value","unit":"s"|"min"|"h"|"d"},
  *      "output"?: {"grid":"linear"|"log","points":2–5000,"firstTime"?:time}},
+ *    "analysis"?: {"conversions"?: [0.5, 0.9], "yields"?: {"reactant","products":[…],"reactantPerProduct"?}},
  *    "solver"?: {"method":"stiff"|"nonstiff","rtol","atol" (mol/L),"maxSteps","wallTimeMs"}}
  * Response: times (s), temperatures (K), concentrations per species (mol/L), rate constants at
- *   the start temperature, analysis (initial/final/extremes, conversion, time to 50 % and 90 %
- *   conversion from the output grid, conservation drift), statistics and the solver settings used.
+ *   the start temperature, analysis (per species initial/final/extremes, conversion and times to
+ *   the requested conversions located on the dense output; element and conservation-law mass
+ *   balance; yields and selectivity when asked), statistics and the solver settings used.
  * The wall-time budget is capped at SIMULATE_MAX_WALL_MS whatever the request asks.
  */
 import { z } from "zod";
 import { MechanismDocumentSchema, documentToEngine, validateMechanismDocument } from "../../solver/exchange-format";
-import { compileMechanism, type CompiledModel } from "../../solver/model";
-import { compileStep, lnRateCompiled } from "../../solver/barrier-forms";
-import { compileThermo, reverseLaw } from "../../solver/detailed-balance";
-import { simulate, type SimulationResult, type StepRateFunctions } from "../../solver/simulate";
+import type { CompiledModel } from "../../solver/model";
+import { buildMechanism } from "../../solver/step-rates";
+import { massBalanceReport, yieldsAndSelectivity } from "../../solver/analysis";
+import { simulate, type ConversionEventRequest, type SimulationResult } from "../../solver/simulate";
 import type { TemperatureProgram } from "../../solver/temperature-program";
 import type { OutputGrid } from "../../solver/output-grid";
 import { RATE_CONSTANT_UNITS, concentrationToMolPerL, timeToSeconds, type TimeUnit } from "../../solver/units";
-import type { Result, StepKinetics } from "../../solver/types";
+import type { Result, Species } from "../../solver/types";
 import { engineFailure, invalidBody, jsonResponse, readJsonBody, zodFields } from "./json-request.server";
 import { TemperatureSchema, TimeUnitSchema, requestPath, toKelvin } from "./compute-common.server";
 import { apiError } from "./errors.server";
@@ -80,6 +82,18 @@ export const SimulateRequestSchema = z.strictObject({
         ctx.addIssue({ code: "custom", path: ["temperature"], message: 'Give either "temperature" (isothermal) or "program", not both or neither.' });
       }
     }),
+  analysis: z
+    .strictObject({
+      conversions: z.array(z.number().gt(0).lt(1)).max(20).optional(),
+      yields: z
+        .strictObject({
+          reactant: z.string(),
+          products: z.array(z.string()).min(1).max(100),
+          reactantPerProduct: z.record(z.string(), z.number().positive()).optional(),
+        })
+        .optional(),
+    })
+    .optional(),
   solver: z
     .strictObject({
       method: z.enum(["stiff", "nonstiff"]).optional(),
@@ -124,59 +138,34 @@ function temperatureProgram(c: SimulateRequest["conditions"]): Result<Temperatur
   return { ok: true, value: { kind: "holds", holds } };
 }
 
-/** k(T) functions per step from the committed barrier and detailed-balance laws. */
-function rateFunctions(steps: StepKinetics[]): Result<StepRateFunctions[]> {
-  const out: StepRateFunctions[] = [];
-  for (let i = 0; i < steps.length; i++) {
-    const fwd = compileStep(steps[i], `steps[${i}]`);
-    if (!fwd.ok) return fwd;
-    const f = fwd.value;
-    const fns: StepRateFunctions = { kf: (T) => Math.exp(lnRateCompiled(f, T)) };
-    if (steps[i].reversible) {
-      const th = compileThermo(steps[i], `steps[${i}]`);
-      if (!th.ok) return th;
-      const r = reverseLaw(f, th.value);
-      fns.kr = (T) => Math.exp(lnRateCompiled(r, T));
-    }
-    out.push(fns);
-  }
-  return { ok: true, value: out };
-}
-
-/** First time (s) the series falls to `target`, by linear interpolation on the output grid; null if never. */
-function crossing(times: Float64Array, c: Float64Array, target: number): number | null {
-  if (c.length === 0 || c[0] <= target) return null;
-  for (let k = 1; k < c.length; k++) {
-    if (c[k] <= target) {
-      const f = (c[k - 1] - target) / (c[k - 1] - c[k]);
-      return times[k - 1] + f * (times[k] - times[k - 1]);
-    }
-  }
-  return null;
-}
-
-function analysis(model: CompiledModel, res: SimulationResult) {
-  const species: Record<string, unknown> = {};
+function analysis(model: CompiledModel, species: Species[], res: SimulationResult, req: SimulateRequest) {
+  const perSpecies: Record<string, Record<string, unknown>> = {};
   const K = res.times.length;
   for (let i = 0; i < model.nSpecies; i++) {
     const c = res.conc[i];
     let min = Infinity, max = -Infinity;
-    for (let k = 0; k < K; k++) (min = Math.min(min, c[k])), (max = Math.max(max, c[k]));
+    for (let k = 0; k < K; k++) ((min = Math.min(min, c[k])), (max = Math.max(max, c[k])));
     const c0 = c[0], cEnd = c[K - 1];
-    const entry: Record<string, unknown> = { initial: c0, final: cEnd, min, max, unit: "mol/L" };
+    const entry: Record<string, unknown> = { initial: c0, final: cEnd, min, max };
     if (c0 > 0) {
       entry.conversion = 1 - cEnd / c0;
-      entry.timeTo50PercentConversion = crossing(res.times, c, 0.5 * c0);
-      entry.timeTo90PercentConversion = crossing(res.times, c, 0.1 * c0);
+      entry.timesToConversion = [];
     }
-    species[model.speciesIds[i]] = entry;
+    perSpecies[model.speciesIds[i]] = entry;
   }
-  return {
-    species,
-    timeUnit: "s",
-    eventsLocated: "output-grid (linear interpolation)",
-    conservation: { laws: res.drift.length, maxRelativeDrift: res.maxDrift },
-  };
+  for (const ev of res.events) {
+    (perSpecies[ev.species].timesToConversion as unknown[]).push({ conversion: ev.conversion, time: ev.time, located: ev.located });
+  }
+  const out: Record<string, unknown> = { concentrationUnit: "mol/L", timeUnit: "s", species: perSpecies };
+  const mb = massBalanceReport(species, res);
+  out.massBalance = mb.ok ? mb.value : { conservationMaxDrift: res.maxDrift, note: mb.error.message };
+  const y = req.analysis?.yields;
+  if (y) {
+    const report = yieldsAndSelectivity(res, y);
+    if (!report.ok) return { ok: false as const, error: report.error, path: `analysis.yields.${report.error.path ?? ""}`.replace(/\.$/, "") };
+    out.yields = report.value;
+  }
+  return { ok: true as const, value: out };
 }
 
 export async function handleSimulate(request: Request): Promise<Response> {
@@ -194,11 +183,10 @@ export async function handleSimulate(request: Request): Promise<Response> {
   }
   const eng = documentToEngine(doc.value);
   if (!eng.ok) return engineFailure(eng.error, requestPath(eng.error.path, "mechanism"));
-  const model = compileMechanism(eng.value.mechanism);
-  if (!model.ok) return engineFailure(model.error, requestPath(model.error.path, "mechanism"));
-  const rates = rateFunctions(eng.value.steps);
-  if (!rates.ok) return engineFailure(rates.error, requestPath(rates.error.path, "mechanism"));
-  const m = model.value;
+  const built = buildMechanism(eng.value.species, eng.value.steps);
+  if (!built.ok) return engineFailure(built.error, requestPath(built.error.path, "mechanism"));
+  const m = built.value.model;
+  const rates = { value: built.value.rateConstants };
 
   const c = req.conditions;
   const program = temperatureProgram(c);
@@ -242,7 +230,11 @@ export async function handleSimulate(request: Request): Promise<Response> {
     wallTimeMs: Math.min(req.solver?.wallTimeMs ?? SIMULATE_MAX_WALL_MS, SIMULATE_MAX_WALL_MS),
     wallTimeCapMs: SIMULATE_MAX_WALL_MS,
   };
+  const conversions = req.analysis?.conversions ?? [0.5, 0.9];
+  const conversionEvents: ConversionEventRequest[] = [];
+  for (const [id, v] of Object.entries(initial)) if (v > 0) for (const conversion of conversions) conversionEvents.push({ species: id, conversion });
   const run = simulate(m, {
+    conversionEvents,
     rateConstants: rates.value,
     temperature: program.value,
     initial,
@@ -271,6 +263,8 @@ export async function handleSimulate(request: Request): Promise<Response> {
     return engineFailure(e, path);
   }
   const res = run.value;
+  const summary = analysis(m, eng.value.species, res, req);
+  if (!summary.ok) return engineFailure(summary.error, summary.path);
 
   const rateTable = eng.value.steps.map((st, r) => {
     const kf = rates.value[r].kf(T0);
@@ -287,7 +281,7 @@ export async function handleSimulate(request: Request): Promise<Response> {
     temperatures: { unit: "K", values: res.temperatures },
     concentrations: { unit: "mol/L", species: bySpecies },
     rateConstants: rateTable,
-    analysis: analysis(m, res),
+    analysis: summary.value,
     statistics: {
       steps: res.stats.steps,
       accepted: res.stats.accepted,

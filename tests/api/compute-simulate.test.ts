@@ -92,10 +92,13 @@ describe("POST /api/v1/simulate", () => {
     expect(json.temperatures.values[0]).toBeCloseTo(298.15, 12);
     expect(json.rateConstants[0].kForward.value / k).toBeCloseTo(1, 12);
     expect(json.rateConstants[0].kForward.unit).toBe("s⁻¹");
-    // half-life ln 2/k from the output grid (linear interpolation: coarse)
-    expect(json.analysis.species.A.timeTo50PercentConversion / (Math.LN2 / k)).toBeCloseTo(1, 2);
+    // half-life ln 2/k and t(90 %) = ln 10/k (first-order integrated rate law), located on the dense output
+    const [t50, t90] = json.analysis.species.A.timesToConversion;
+    expect(t50).toMatchObject({ conversion: 0.5, located: "dense-output" });
+    expect(Math.abs(t50.time / (Math.LN2 / k) - 1)).toBeLessThan(1e-6);
+    expect(Math.abs(t90.time / (Math.LN10 / k) - 1)).toBeLessThan(1e-6);
     expect(json.analysis.species.A.conversion).toBeCloseTo(1 - Math.exp(-k * 60), 6);
-    expect(json.analysis.conservation.maxRelativeDrift).toBeLessThan(1e-9);
+    expect(json.analysis.massBalance.conservationMaxDrift).toBeLessThan(1e-9);
     expect(json.statistics.steps).toBeGreaterThan(0);
     expect(json.solver.method).toBe("stiff");
   });
@@ -107,6 +110,23 @@ describe("POST /api/v1/simulate", () => {
     const A: number[] = json.concentrations.species.A;
     expect(Math.abs(A[60] / (0.1 * Math.exp(-k * 60)) - 1)).toBeLessThan(1e-6);
     expect(json.solver.wallTimeMs).toBe(json.solver.wallTimeCapMs);
+  });
+
+  it("yields and selectivity of two parallel first-order channels follow k₁/(k₁+k₂)", async () => {
+    const mech = firstOrderMechanism();
+    mech.species.push({ id: "C" });
+    mech.steps.push({ ...mech.steps[0], id: "ac", products: [{ species: "C", coef: 1 }], barrier: { form: "dG", dG: 82, unit: "kJ/mol", T: 298.15, standardState: "1M" } });
+    const { status, json } = await post({
+      mechanism: mech,
+      conditions: { ...baseConditions, endTime: { value: 10, unit: "min" } },
+      analysis: { conversions: [0.25], yields: { reactant: "A", products: ["B", "C"] } },
+      solver: { rtol: 1e-9, atol: 1e-14 },
+    });
+    expect(status).toBe(200);
+    // parallel first-order reactions: [B]/[C] = k₁/k₂ = exp(2000/RT) at all times (analytic)
+    const ratio = Math.exp(2000 / (R * 298.15));
+    expect(json.analysis.yields.selectivity.B / (ratio / (1 + ratio))).toBeCloseTo(1, 6);
+    expect(json.analysis.species.A.timesToConversion).toHaveLength(1);
   });
 
   it("a reversible A ⇌ B relaxes to K = exp(−ΔG°/RT) (detailed balance)", async () => {
