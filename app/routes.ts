@@ -6,6 +6,7 @@ export default [
   route("mechanisms", "routes/mechanisms.tsx"),
   route("runs", "routes/runs.tsx"),
   route("data", "routes/data.tsx"),
+  route("analysis", "routes/analysis.tsx"),
 
   // REST API (resource routes)
   route("api/v1/health", "routes/api.v1.health.ts"),
