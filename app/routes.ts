@@ -12,6 +12,10 @@ export default [
   route("api/v1/health", "routes/api.v1.health.ts"),
   route("api/v1/rates", "routes/api.v1.rates.ts"),
   route("api/v1/simulate", "routes/api.v1.simulate.ts"),
+  route("api/v1/runs", "routes/api.v1.runs.ts"),
+  route("api/v1/runs/:id", "routes/api.v1.runs.$id.ts"),
+  route("api/v1/runs/:id/cancel", "routes/api.v1.runs.$id.cancel.ts"),
+  route("api/v1/runs/:id/results.csv", "routes/api.v1.runs.$id.results-csv.ts"),
   route("api/v1/*", "routes/api.v1.not-found.ts"),
 
   route("*", "routes/not-found.tsx"),

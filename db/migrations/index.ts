@@ -5,6 +5,7 @@
  */
 import type { Knex } from "knex";
 import * as m0001 from "./0001_identity";
+import * as m0300 from "./0300_workbench";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -13,6 +14,7 @@ interface Migration {
 
 const list: Array<[string, Migration]> = [
   ["0001_identity", m0001],
+  ["0300_workbench", m0300],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

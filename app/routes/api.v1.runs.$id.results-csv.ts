@@ -1,0 +1,10 @@
+/** GET /api/v1/runs/:id/results.csv — time (s), T (K) and concentrations (mol/L) of a finished run. */
+import { requireApiUser } from "~/auth/api-auth.server";
+import { handleRunCsv } from "~/compute/run-api.server";
+import { getDb } from "../../db/client.server";
+import type { Route } from "./+types/api.v1.runs.$id.results-csv";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  return handleRunCsv(getDb(), user, params.id);
+}
