@@ -6,11 +6,13 @@
  */
 import type { Knex } from "knex";
 import { seedDemoIdentities } from "./demo-identities";
+import { seedDemoLibrary } from "./demo-library";
 
 export type Seeder = { name: string; run(db: Knex): Promise<void> };
 
 export const SEEDERS: Seeder[] = [
   { name: "identities", run: seedDemoIdentities },
+  { name: "library and mechanisms", run: seedDemoLibrary },
 ];
 
 /** True when the database holds no users yet. */
