@@ -1,4 +1,5 @@
 import {
+  data,
   isRouteErrorResponse,
   Links,
   Meta,
@@ -13,14 +14,22 @@ import "@fontsource/noto-sans/500.css";
 import "@fontsource/noto-sans/600.css";
 import "@fontsource/noto-sans/700.css";
 import "./app.css";
+import { securityHeadersMiddleware } from "./security/headers.server";
 import { AppShell } from "./components/AppShell";
 import { getOptionalUser } from "./auth/current-user.server";
+import { ensureCsrfToken } from "./auth/csrf.server";
+import { can } from "./auth/policy.server";
+
+export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getOptionalUser(request);
-  return { user };
+  const { token: csrf, setCookie } = await ensureCsrfToken(request);
+  const mailbox = process.env.DEV_MAILBOX === "1" || (process.env.NODE_ENV === "development" && !!process.env.MAIL_CATCHER_DIR);
+  const shellUser = user ? { id: user.id, email: user.email, name: user.name, role: user.role, admin: can(user, { do: "user.manage" }), mailbox } : null;
+  return data({ user: shellUser, csrf }, setCookie ? { headers: { "Set-Cookie": setCookie } } : undefined);
 }
 
 export function Layout({ children }: { children: React.ReactNode }) {
@@ -43,7 +52,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
 
 export default function App({ loaderData }: Route.ComponentProps) {
   return (
-    <AppShell user={loaderData.user}>
+    <AppShell user={loaderData.user} csrf={loaderData.csrf}>
       <Outlet />
     </AppShell>
   );
@@ -68,7 +77,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     detail = error.message;
   }
   return (
-    <AppShell user={data?.user ?? null}>
+    <AppShell user={data?.user ?? null} csrf={data?.csrf}>
       <div className="panel mx-auto mt-10 max-w-xl">
         <h1 className="text-xl font-semibold text-ink-900">{title}</h1>
         <p className="mt-2 text-ink-700">{detail}</p>

@@ -1,9 +1,17 @@
 /**
  * Local fakes of the hosted services, started with the app in development and in tests:
- * an OAuth2/OpenID provider and an SMTP catcher. Each returns the environment the app
- * needs to reach it. With the real services configured (OIDC_ISSUER / SMTP_URL in the
- * environment) nothing is started.
+ * an OAuth2/OpenID provider (scripts/fake-oidc.ts) and an SMTP catcher
+ * (scripts/fake-smtp.ts). Each returns the environment the app needs to reach it. With
+ * the real services configured (OIDC_ISSUER / SMTP_URL in the environment) that fake
+ * is not started.
  */
+import { resolve } from "node:path";
+import { rmSync } from "node:fs";
+import { projectRoot } from "./env";
+import { freePort } from "./ports";
+import { startFakeOidc, FAKE_IDENTITIES } from "./fake-oidc";
+import { startFakeSmtp } from "./fake-smtp";
+
 export interface DevServices {
   /** Variables the app process needs to reach the fakes. */
   env: Record<string, string>;
@@ -12,6 +20,47 @@ export interface DevServices {
   stop(): Promise<void>;
 }
 
-export async function startDevServices(_opts: { log?: (line: string) => void; appUrl: string; databaseUrl: string }): Promise<DevServices> {
-  return { env: {}, notes: [], async stop() {} };
+export async function startDevServices(opts: { log?: (line: string) => void; appUrl: string; databaseUrl: string }): Promise<DevServices> {
+  const env: Record<string, string> = {};
+  const notes: string[] = [];
+  const stops: Array<() => Promise<void>> = [];
+  // Test runs (databases named saddlebook_t_…) get a mail folder of their own, removed afterwards.
+  const throwaway = /saddlebook_t_/.test(opts.databaseUrl);
+  try {
+    if (!process.env.OIDC_ISSUER) {
+      const oidc = await startFakeOidc({ port: await freePort() });
+      stops.push(oidc.stop);
+      Object.assign(env, {
+        OIDC_ISSUER: oidc.issuer,
+        OIDC_CLIENT_ID: oidc.clientId,
+        OIDC_CLIENT_SECRET: oidc.clientSecret,
+        OIDC_PROVIDER_NAME: "the local sign-in provider",
+      });
+      notes.push(`Single sign-on: local provider at ${oidc.issuer} (choose any of ${FAKE_IDENTITIES.length} identities).`);
+    } else {
+      notes.push(`Single sign-on: ${process.env.OIDC_ISSUER}`);
+    }
+    if (!process.env.SMTP_URL) {
+      const port = await freePort();
+      const appPort = new URL(opts.appUrl).port || "80";
+      const dir = resolve(projectRoot, ".data/mail", throwaway ? `test-${appPort}-${port}` : `app-${appPort}`);
+      const smtp = await startFakeSmtp({ port, dir });
+      stops.push(async () => {
+        await smtp.stop();
+        if (throwaway) rmSync(dir, { recursive: true, force: true });
+      });
+      Object.assign(env, { SMTP_URL: `smtp://127.0.0.1:${port}`, MAIL_CATCHER_DIR: dir, DEV_MAILBOX: "1" });
+      notes.push(`Mail: caught locally (nothing is delivered); read it at ${opts.appUrl}/dev/mailbox`);
+    }
+  } catch (e) {
+    for (const s of stops.reverse()) await s().catch(() => {});
+    throw e;
+  }
+  return {
+    env,
+    notes,
+    async stop() {
+      for (const s of stops.reverse()) await s().catch(() => {});
+    },
+  };
 }

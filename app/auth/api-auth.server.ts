@@ -1,17 +1,44 @@
 /**
  * Who is calling the REST API: a bearer token (Authorization: Bearer …) or the session.
- * (The sign-in work fills in token lookup; the signatures are the contract.)
+ * A request that sends a token is judged by the token alone: a revoked or unknown token
+ * is refused even when a session cookie comes along.
  */
 import { apiError } from "~/api/errors.server";
-import { getOptionalUser, type SessionUser } from "./current-user.server";
+import { getOptionalUser, loadSessionUser, type SessionUser } from "./current-user.server";
+import { getDb } from "../../db/client.server";
+import { userIdForApiToken } from "../../db/access/tokens.server";
+
+export function bearerToken(request: Request): string | null {
+  const h = request.headers.get("Authorization");
+  if (!h) return null;
+  const m = /^Bearer\s+(\S+)\s*$/i.exec(h);
+  return m ? m[1] : "";
+}
 
 export async function getApiUser(request: Request): Promise<SessionUser | null> {
+  const token = bearerToken(request);
+  if (token !== null) {
+    if (!token) return null;
+    const found = await userIdForApiToken(getDb(), token);
+    return found ? loadSessionUser(found.userId) : null;
+  }
   return getOptionalUser(request);
 }
 
 /** The calling user, or a thrown JSON 401 response. */
 export async function requireApiUser(request: Request): Promise<SessionUser> {
   const user = await getApiUser(request);
-  if (!user) throw apiError(401, "unauthorized", "Sign in, or send an API token as 'Authorization: Bearer <token>'.");
+  if (!user) {
+    const sent = bearerToken(request) !== null;
+    throw apiError(
+      401,
+      "unauthorized",
+      sent
+        ? "The API token is not valid: it may have been revoked or mistyped."
+        : "Sign in, or send an API token as 'Authorization: Bearer <token>'.",
+      undefined,
+      { "WWW-Authenticate": 'Bearer realm="saddlebook"' },
+    );
+  }
   return user;
 }

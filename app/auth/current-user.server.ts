@@ -1,10 +1,13 @@
 /**
  * Who is asking. Reads the session cookie and returns the signed-in user, or null.
- * (The sign-in work fills in the session lookup; the signatures below are the contract
- * routes rely on.)
+ * A tampered cookie fails its signature check and counts as no session; a disabled or
+ * deleted user counts as signed out.
  */
 import { redirect } from "react-router";
 import type { Actor, Role } from "./policy.server";
+import { getSession, sessionUserId } from "./session.server";
+import { getDb } from "../../db/client.server";
+import { loadUserWithGroups } from "../../db/access/users.server";
 
 /** The signed-in user as routes and the policy module see them. */
 export interface SessionUser extends Actor {
@@ -16,8 +19,18 @@ export interface SessionUser extends Actor {
   adminGroupIds: number[];
 }
 
-export async function getOptionalUser(_request: Request): Promise<SessionUser | null> {
-  return null;
+export async function loadSessionUser(userId: number): Promise<SessionUser | null> {
+  const u = await loadUserWithGroups(getDb(), userId);
+  if (!u) return null;
+  return { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds };
+}
+
+export async function getOptionalUser(request: Request): Promise<SessionUser | null> {
+  if (!request.headers.get("Cookie")) return null;
+  const session = await getSession(request);
+  const id = sessionUserId(session);
+  if (id == null) return null;
+  return loadSessionUser(id);
 }
 
 /** The signed-in user, or a redirect to the sign-in page that comes back here. */

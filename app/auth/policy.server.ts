@@ -55,7 +55,13 @@ export type Action =
   | { do: "compute.use" }
   | { do: "token.manage" }
   | { do: "user.manage" }
-  | { do: "group.manage"; groupId: number };
+  | { do: "audit.read" }
+  | { do: "group.create" }
+  | { do: "group.read"; groupId: number }
+  | { do: "group.manage"; groupId: number } // invite, change group roles, remove members
+  // Change a group member's global role. Group admins move members between viewer and
+  // author; only site admins grant curator or admin (or change a curator's or admin's role).
+  | { do: "member.setRole"; groupId: number; from: Role; to: Role };
 
 const RANK: Record<Role, number> = { viewer: 0, author: 1, curator: 2, admin: 3 };
 
@@ -116,9 +122,19 @@ export function can(actor: Actor | null, action: Action): boolean {
     case "token.manage":
       return !!actor;
     case "user.manage":
+    case "audit.read":
+    case "group.create":
       return atLeast(actor, "admin");
+    case "group.read":
+      return !!actor && (actor.role === "admin" || actor.groupIds.includes(action.groupId));
     case "group.manage":
       return !!actor && (actor.role === "admin" || (actor.adminGroupIds ?? []).includes(action.groupId));
+    case "member.setRole": {
+      if (!actor) return false;
+      if (actor.role === "admin") return true;
+      const low = (r: Role) => r === "viewer" || r === "author";
+      return (actor.adminGroupIds ?? []).includes(action.groupId) && low(action.from) && low(action.to);
+    }
   }
 }
 

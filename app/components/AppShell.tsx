@@ -8,6 +8,10 @@ export interface ShellUser {
   name: string;
   email: string;
   role: string;
+  /** May manage users (decided by the policy module in the root loader). */
+  admin?: boolean;
+  /** Show the development mailbox link (only when the local mail catcher runs). */
+  mailbox?: boolean;
 }
 
 const NAV = [
@@ -46,12 +50,24 @@ export function AppShell({ user, csrf, children }: { user: ShellUser | null; csr
                   {user.name} <span className="text-ink-300">· {user.role}</span>
                 </summary>
                 <div className="absolute right-0 z-50 mt-1 w-52 rounded-md border border-ink-200 bg-white py-1 text-sm text-ink-900 shadow-lg">
+                  <p className="border-b border-ink-100 px-3 pt-1 pb-2 text-xs text-ink-500">{user.email}</p>
                   <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/settings">
-                    Settings and API tokens
+                    Settings
                   </Link>
-                  {user.role === "admin" && (
+                  <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/settings/tokens">
+                    API tokens
+                  </Link>
+                  <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/groups">
+                    Groups
+                  </Link>
+                  {user.admin && (
                     <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/admin/users">
-                      Users and groups
+                      Users (admin)
+                    </Link>
+                  )}
+                  {user.mailbox && (
+                    <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/dev/mailbox">
+                      Mailbox (development)
                     </Link>
                   )}
                   <Form method="post" action="/sign-out">

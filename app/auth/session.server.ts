@@ -1,0 +1,78 @@
+/**
+ * The session cookie: signed with SESSION_SECRET, httpOnly, SameSite=Lax, Secure when
+ * the app is served over https in production, 12-hour lifetime (renewed on sign-in).
+ * It holds the user id, the CSRF token and the time of sign-in; nothing else.
+ */
+import { createCookieSessionStorage, type Session } from "react-router";
+
+export interface SessionData {
+  userId: number;
+  csrf: string;
+  signedInAt: number;
+  /** "password" or "oidc": how this session was signed in. */
+  method: string;
+  /** Where to return after single sign-on (set when the provider redirect starts). */
+  oidcNext: string;
+}
+
+export interface SessionFlash {
+  notice: string;
+}
+
+export const SESSION_MAX_AGE_S = 12 * 3600;
+export const SESSION_COOKIE = "__saddlebook";
+
+type Storage = ReturnType<typeof createCookieSessionStorage<SessionData, SessionFlash>>;
+let storage: Storage | undefined;
+
+function secret(): string {
+  const s = process.env.SESSION_SECRET;
+  if (s && s.length >= 16) return s;
+  if (process.env.NODE_ENV === "production") {
+    throw new Error("SESSION_SECRET is not set (at least 16 characters): sessions cannot be signed.");
+  }
+  // Development and test runs without a configured secret still work, per process.
+  return (globalThis as { __sbDevSecret?: string }).__sbDevSecret ??= crypto.randomUUID() + crypto.randomUUID();
+}
+
+export function secureCookies(): boolean {
+  return process.env.NODE_ENV === "production" && (process.env.APP_URL ?? "").startsWith("https://");
+}
+
+export function sessionStorage(): Storage {
+  storage ??= createCookieSessionStorage<SessionData, SessionFlash>({
+    cookie: {
+      name: SESSION_COOKIE,
+      httpOnly: true,
+      sameSite: "lax",
+      secure: secureCookies(),
+      path: "/",
+      maxAge: SESSION_MAX_AGE_S,
+      secrets: [secret()],
+    },
+  });
+  return storage;
+}
+
+export type AppSession = Session<SessionData, SessionFlash>;
+
+export async function getSession(request: Request): Promise<AppSession> {
+  return sessionStorage().getSession(request.headers.get("Cookie"));
+}
+
+export async function commitSession(session: AppSession): Promise<string> {
+  return sessionStorage().commitSession(session);
+}
+
+export async function destroySession(session: AppSession): Promise<string> {
+  return sessionStorage().destroySession(session);
+}
+
+/** A session is live while its sign-in is younger than the cookie lifetime. */
+export function sessionUserId(session: AppSession, now = Date.now()): number | null {
+  const id = session.get("userId");
+  const at = session.get("signedInAt");
+  if (typeof id !== "number" || typeof at !== "number") return null;
+  if (now - at > SESSION_MAX_AGE_S * 1000) return null;
+  return id;
+}
