@@ -1,0 +1,150 @@
+/**
+ * The OpenAPI 3.1 description of the library, mechanism and species endpoints, generated
+ * from the same zod schemas the handlers validate with (zod 4 `z.toJSONSchema`).
+ * Served at /api/v1/openapi.json and shown as a page at /api/v1/docs.
+ */
+import { z } from "zod";
+import {
+  CommentSchema,
+  ForkSchema,
+  MechanismCreateSchema,
+  MechanismUpdateSchema,
+  ReviewSchema,
+  SpeciesInputSchema,
+  StepEditSchema,
+  StepInputSchema,
+} from "../components/library/step-schema";
+import { MechanismDocumentSchema } from "../../solver/exchange-format";
+import { DiffParams, StepSearchParams } from "./library-api.server";
+import { IMPORT_LIMIT_BYTES } from "../../db/access/mechanisms.server";
+
+const ErrorBodySchema = z.strictObject({
+  error: z.strictObject({
+    code: z.string().meta({ description: "Machine-readable code, e.g. invalid_input, not_found, version_conflict, forbidden." }),
+    message: z.string().meta({ description: "One sentence for a person." }),
+    fields: z.record(z.string(), z.string()).optional().meta({ description: "Field path → problem (with line and column for uploaded documents)." }),
+  }),
+});
+
+const PageSchema = z.strictObject({
+  items: z.array(z.record(z.string(), z.unknown())),
+  nextCursor: z.string().nullable().meta({ description: "Pass as `cursor` for the next page; null on the last page." }),
+});
+
+const SCHEMAS: Record<string, z.ZodType> = {
+  Error: ErrorBodySchema,
+  Page: PageSchema,
+  StepInput: StepInputSchema,
+  StepEdit: StepEditSchema,
+  Review: ReviewSchema,
+  Comment: CommentSchema,
+  SpeciesInput: SpeciesInputSchema,
+  MechanismCreate: MechanismCreateSchema,
+  MechanismUpdate: MechanismUpdateSchema,
+  Fork: ForkSchema,
+  MechanismDocument: MechanismDocumentSchema,
+};
+
+function componentSchemas(): Record<string, unknown> {
+  const reg = z.registry<{ id: string }>();
+  for (const [id, s] of Object.entries(SCHEMAS)) reg.add(s, { id });
+  const out = z.toJSONSchema(reg, { uri: (id) => `#/components/schemas/${id}`, target: "draft-2020-12", io: "input", unrepresentable: "any" }) as { schemas: Record<string, Record<string, unknown>> };
+  const clean: Record<string, unknown> = {};
+  for (const [id, s] of Object.entries(out.schemas)) {
+    const { $schema: _s, $id: _i, ...rest } = s;
+    clean[id] = rest;
+  }
+  return clean;
+}
+
+/** Query parameters from a zod object schema. */
+function queryParams(schema: z.ZodObject, arrays: string[] = []): unknown[] {
+  const js = z.toJSONSchema(schema, { io: "input", unrepresentable: "any" }) as { properties: Record<string, Record<string, unknown>> };
+  return Object.entries(js.properties).map(([name, s]) => ({
+    name,
+    in: "query",
+    required: false,
+    description: [s.description, arrays.includes(name) ? "Comma-separated list." : null].filter(Boolean).join(" ") || undefined,
+    schema: arrays.includes(name) ? { type: "string" } : s,
+  }));
+}
+
+const ref = (id: string) => ({ $ref: `#/components/schemas/${id}` });
+const json = (id: string) => ({ content: { "application/json": { schema: ref(id) } } });
+const errors = (...codes: number[]) =>
+  Object.fromEntries(
+    codes.map((c) => [
+      String(c),
+      {
+        description: { 400: "Invalid input (fields name each problem)", 401: "Not signed in / no valid token", 403: "Not allowed for your role", 404: "Not found or not visible to you", 409: "Stale baseVersion: someone saved first; nothing was written", 413: "Body too large" }[c] ?? "Error",
+        ...json("Error"),
+      },
+    ]),
+  );
+const ok = (description: string, schema?: string) => (schema ? { description, ...json(schema) } : { description, content: { "application/json": { schema: { type: "object" } } } });
+const idParam = (name = "id") => ({ name, in: "path", required: true, schema: { type: "integer", minimum: 1 } });
+
+export function openApiDocument(): Record<string, unknown> {
+  return {
+    openapi: "3.1.0",
+    info: {
+      title: "Saddlebook API — step library and mechanisms",
+      version: "1",
+      description:
+        "JSON over HTTPS. Authenticate with the browser session or `Authorization: Bearer <token>`. Errors: {\"error\":{\"code\",\"message\",\"fields\"}}. Lists: {\"items\",\"nextCursor\"} with `cursor` and `limit` (1–200). Saves carry `baseVersion` (or If-Match with the ETag from GET); a stale one gets 409. Energies in requests carry their unit; derived values in responses are SI (J/mol, K).",
+    },
+    servers: [{ url: "/api/v1" }],
+    security: [{ bearer: [] }, { session: [] }],
+    components: {
+      securitySchemes: {
+        bearer: { type: "http", scheme: "bearer", description: "An API token from your account page." },
+        session: { type: "apiKey", in: "cookie", name: "__session" },
+      },
+      schemas: componentSchemas(),
+    },
+    paths: {
+      "/steps": {
+        get: { summary: "Search the step library", parameters: queryParams(StepSearchParams, ["status", "molecularity", "source", "tag"]), responses: { 200: ok("A page of steps with k at T", "Page"), ...errors(400, 401) } },
+        post: { summary: "Create a library step (version 1, draft)", requestBody: { required: true, ...json("StepInput") }, responses: { 201: ok("Created: {stepId, versionId, version}"), ...errors(400, 401, 403, 413) } },
+      },
+      "/steps/{id}": { get: { summary: "A step (the version you may see), with ETag", parameters: [idParam()], responses: { 200: ok("The step"), 304: { description: "Not modified" }, ...errors(401, 404) } } },
+      "/steps/{id}/versions": {
+        get: { summary: "Version history", parameters: [idParam()], responses: { 200: ok("Versions, newest first", "Page"), ...errors(401, 404) } },
+        post: { summary: "Edit: a new immutable version", parameters: [idParam()], requestBody: { required: true, ...json("StepEdit") }, responses: { 201: ok("{versionId, version}"), ...errors(400, 401, 403, 404, 409) } },
+      },
+      "/steps/{id}/versions/{number}": { get: { summary: "One version", parameters: [idParam(), idParam("number")], responses: { 200: ok("The version"), ...errors(401, 404) } } },
+      "/steps/{id}/propose": { post: { summary: "Propose a draft for the library (curators are e-mailed)", parameters: [idParam()], responses: { 200: ok("{version, status}"), ...errors(400, 401, 403, 404) } } },
+      "/steps/{id}/review": { post: { summary: "Curators: approve, request changes, deprecate (with replacement)", parameters: [idParam()], requestBody: { required: true, ...json("Review") }, responses: { 200: ok("{version, status}"), ...errors(400, 401, 403, 404) } } },
+      "/steps/{id}/comments": {
+        get: { summary: "Comments", parameters: [idParam()], responses: { 200: ok("Comments", "Page"), ...errors(401, 404) } },
+        post: { summary: "Add a comment", parameters: [idParam()], requestBody: { required: true, ...json("Comment") }, responses: { 201: ok("{id}"), ...errors(400, 401, 404) } },
+      },
+      "/species": {
+        get: { summary: "List species", parameters: [{ name: "q", in: "query", schema: { type: "string" } }, { name: "cursor", in: "query", schema: { type: "string" } }, { name: "limit", in: "query", schema: { type: "integer", minimum: 1, maximum: 200 } }], responses: { 200: ok("A page of species", "Page"), ...errors(400, 401) } },
+        post: { summary: "Add a species (formula checked)", requestBody: { required: true, ...json("SpeciesInput") }, responses: { 201: ok("The species"), ...errors(400, 401, 403) } },
+      },
+      "/species/{id}": { get: { summary: "One species", parameters: [idParam()], responses: { 200: ok("The species"), ...errors(401, 404) } } },
+      "/mechanisms": {
+        get: { summary: "Mechanisms you can read", parameters: [{ name: "q", in: "query", schema: { type: "string" } }, { name: "mine", in: "query", schema: { type: "string", enum: ["1", "true"] } }, { name: "cursor", in: "query", schema: { type: "string" } }, { name: "limit", in: "query", schema: { type: "integer" } }], responses: { 200: ok("A page of mechanisms", "Page"), ...errors(400) } },
+        post: { summary: "Create a mechanism (version 1)", requestBody: { required: true, ...json("MechanismCreate") }, responses: { 201: ok("{id, version}"), ...errors(400, 401, 403) } },
+      },
+      "/mechanisms/import": {
+        post: {
+          summary: `Import a Saddlebook mechanism document (at most ${IMPORT_LIMIT_BYTES} bytes); one transaction`,
+          parameters: [{ name: "visibility", in: "query", schema: { type: "string", enum: ["private", "group", "public"] } }],
+          requestBody: { required: true, ...json("MechanismDocument") },
+          responses: { 201: ok("{id, version}"), ...errors(400, 401, 403, 413) },
+        },
+      },
+      "/mechanisms/{id}": {
+        get: { summary: "A mechanism (current or ?version=N), with ETag", parameters: [idParam(), { name: "version", in: "query", schema: { type: "integer" } }], responses: { 200: ok("The mechanism with resolved steps and update offers"), ...errors(404) } },
+        put: { summary: "Save a new version (based on baseVersion or If-Match)", parameters: [idParam()], requestBody: { required: true, ...json("MechanismUpdate") }, responses: { 200: ok("{version}"), ...errors(400, 401, 403, 404, 409) } },
+        delete: { summary: "Delete (owner)", parameters: [idParam()], responses: { 204: { description: "Deleted" }, ...errors(401, 403, 404) } },
+      },
+      "/mechanisms/{id}/versions": { get: { summary: "History", parameters: [idParam()], responses: { 200: ok("Versions, newest first", "Page"), ...errors(404) } } },
+      "/mechanisms/{id}/diff": { get: { summary: "Differences between versions, or against the parent", parameters: [idParam(), ...queryParams(DiffParams)], responses: { 200: ok("The diff, with k at T before and after"), ...errors(400, 404) } } },
+      "/mechanisms/{id}/fork": { post: { summary: "Fork into your space (the owner is e-mailed)", parameters: [idParam()], requestBody: { required: false, ...json("Fork") }, responses: { 201: ok("{id, version}"), ...errors(400, 401, 403, 404) } } },
+      "/mechanisms/{id}/export": { get: { summary: "Download as a Saddlebook mechanism document", parameters: [idParam(), { name: "version", in: "query", schema: { type: "integer" } }], responses: { 200: ok("The document", "MechanismDocument"), ...errors(404) } } },
+    },
+  };
+}
