@@ -1,0 +1,250 @@
+/**
+ * Engine benchmark cases: Robertson to t = 1e11, HIRES to t = 321.8122, seeded stiff
+ * mass-action networks (N = 50, 200, 1000) through simulate(), and the rate-constant batch.
+ * Tolerances rtol 1e-6 throughout; atol per problem (stated below). When python3 with scipy is
+ * available, bench/scipy_compare.py runs solve_ivp (BDF, Radau, LSODA, analytic Jacobians,
+ * sparse for the networks) on the same problems and tolerances.
+ *
+ * References: Robertson and HIRES from the Bari IVP test set (Mazzia & Magherini), values as in
+ * tests/solver/integrator-reference.test.ts; networks: our own RODAS4 at rtol 1e-12 (a
+ * self-convergence reference; the scipy script reports its error against the same reference,
+ * which cross-checks it).
+ */
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { compileMechanism } from "../solver/model.ts";
+import type { OdeProblem } from "../solver/ode-problem.ts";
+import { integrateStiff } from "../solver/rosenbrock.ts";
+import { simulate } from "../solver/simulate.ts";
+import { benchRates } from "./rates.bench.ts";
+import { networkToJson, stiffNetwork } from "./stiff-network.ts";
+import type { BenchCase, BenchSuite } from "./types.ts";
+
+const RTOL = 1e-6;
+/** Per-run wall budget of the network cases, ms: a case that needs more is reported as not finished. */
+const NETWORK_BUDGET_MS = 30_000;
+const SCIPY_TIMEOUT_MS = 240_000;
+
+function robertson(): OdeProblem {
+  return {
+    n: 3,
+    autonomous: true,
+    rhs(_t, y, dy) {
+      dy[0] = -0.04 * y[0] + 1e4 * y[1] * y[2];
+      dy[2] = 3e7 * y[1] * y[1];
+      dy[1] = -dy[0] - dy[2];
+    },
+    jacobian: {
+      kind: "dense",
+      fill(_t, y, J) {
+        J[0] = -0.04; J[1] = 1e4 * y[2]; J[2] = 1e4 * y[1];
+        J[3] = 0.04; J[4] = -1e4 * y[2] - 6e7 * y[1]; J[5] = -1e4 * y[1];
+        J[6] = 0; J[7] = 6e7 * y[1]; J[8] = 0;
+      },
+    },
+  };
+}
+
+function hires(): OdeProblem {
+  return {
+    n: 8,
+    autonomous: true,
+    rhs(_t, y, f) {
+      f[0] = -1.71 * y[0] + 0.43 * y[1] + 8.32 * y[2] + 0.0007;
+      f[1] = 1.71 * y[0] - 8.75 * y[1];
+      f[2] = -10.03 * y[2] + 0.43 * y[3] + 0.035 * y[4];
+      f[3] = 8.32 * y[1] + 1.71 * y[2] - 1.12 * y[3];
+      f[4] = -1.745 * y[4] + 0.43 * y[5] + 0.43 * y[6];
+      f[5] = -280 * y[5] * y[7] + 0.69 * y[3] + 1.71 * y[4] - 0.43 * y[5] + 0.69 * y[6];
+      f[6] = 280 * y[5] * y[7] - 1.81 * y[6];
+      f[7] = -f[6];
+    },
+    jacobian: {
+      kind: "dense",
+      fill(_t, y, J) {
+        J.fill(0);
+        const s = (i: number, j: number, v: number) => (J[i * 8 + j] = v);
+        s(0, 0, -1.71); s(0, 1, 0.43); s(0, 2, 8.32);
+        s(1, 0, 1.71); s(1, 1, -8.75);
+        s(2, 2, -10.03); s(2, 3, 0.43); s(2, 4, 0.035);
+        s(3, 1, 8.32); s(3, 2, 1.71); s(3, 3, -1.12);
+        s(4, 4, -1.745); s(4, 5, 0.43); s(4, 6, 0.43);
+        s(5, 3, 0.69); s(5, 4, 1.71); s(5, 5, -0.43 - 280 * y[7]); s(5, 6, 0.69); s(5, 7, -280 * y[5]);
+        s(6, 5, 280 * y[7]); s(6, 6, -1.81); s(6, 7, 280 * y[5]);
+        s(7, 5, -280 * y[7]); s(7, 6, 1.81); s(7, 7, -280 * y[5]);
+      },
+    },
+  };
+}
+
+// Bari IVP test set references (see tests/solver/integrator-reference.test.ts)
+const ROBER_REF = [0.2083340149701255e-7, 0.8333360770334713e-13, 0.999999979166505];
+const HIRES_REF = [
+  0.7371312573325668e-3, 0.1442485726316185e-3, 0.5888729740967575e-4, 0.1175651343283149e-2, 0.2386356198831331e-2,
+  0.6238968252742796e-2, 0.2849998395185769e-2, 0.2850001604814231e-2,
+];
+
+function maxRelError(y: ArrayLike<number>, ref: ArrayLike<number>, atol: number): number {
+  let m = 0;
+  for (let i = 0; i < ref.length; i++) {
+    if (Math.abs(ref[i]) <= atol) continue;
+    const e = Math.abs(y[i] - ref[i]) / Math.abs(ref[i]);
+    if (e > m) m = e;
+  }
+  return m;
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+/** Times `fn` (after `warm` warm-up calls) `runs` times; returns the median ms and the last value. */
+function timeIt<T>(fn: () => T, runs: number, warm = 2): { ms: number; value: T } {
+  let value = fn();
+  for (let w = 1; w < warm; w++) value = fn();
+  const ts: number[] = [];
+  for (let r = 0; r < runs; r++) {
+    const t0 = performance.now();
+    value = fn();
+    ts.push(performance.now() - t0);
+  }
+  return { ms: median(ts), value };
+}
+
+interface ScipyProblem {
+  name: string;
+  kind: "robertson" | "hires" | "network";
+  tEnd: number;
+  y0: number[];
+  rtol: number;
+  atol: number;
+  reference: number[];
+  network?: unknown;
+}
+
+type ScipyRun = { method: string; ms: number; maxRelError: number; status: string };
+
+/** Runs the scipy script once per problem (each with a time limit); null when python3/scipy is missing. */
+function runScipy(problems: ScipyProblem[]): Record<string, ScipyRun[]> | null {
+  try {
+    execFileSync("python3", ["-c", "import scipy"], { stdio: "ignore" });
+  } catch {
+    console.error("scipy comparison skipped: python3 with scipy is not available");
+    return null;
+  }
+  const dir = mkdtempSync(join(tmpdir(), "saddlebook-bench-"));
+  const script = join(dirname(fileURLToPath(import.meta.url)), "scipy_compare.py");
+  const out: Record<string, ScipyRun[]> = {};
+  try {
+    for (const p of problems) {
+      const file = join(dir, "problem.json");
+      writeFileSync(file, JSON.stringify([p]));
+      try {
+        const text = execFileSync("python3", [script, file], { encoding: "utf8", maxBuffer: 1 << 26, stdio: ["ignore", "pipe", "inherit"], timeout: SCIPY_TIMEOUT_MS });
+        Object.assign(out, JSON.parse(text));
+      } catch (e) {
+        console.error(`scipy on "${p.name}" did not finish: ${(e as Error).message.split("\n")[0]}`);
+      }
+      console.error(`scipy done: ${p.name}`);
+    }
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+  return out;
+}
+
+async function run(): Promise<BenchCase[]> {
+  const cases: BenchCase[] = [];
+  const scipyProblems: ScipyProblem[] = [];
+
+  // Robertson, atol 1e-12 (y₂ falls below it late; error counted on components above atol)
+  {
+    const atol = 1e-12;
+    const r = timeIt(() => integrateStiff(robertson(), 0, [1, 0, 0], 1e11, { rtol: RTOL, atol }), 9);
+    if (!r.value.ok) throw new Error(`Robertson failed: ${r.value.error.message}`);
+    cases.push({ name: "Robertson to t = 1e11", wallMsMedian: r.ms, runs: 9, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, ROBER_REF, atol), extra: { rtol: RTOL, atol } });
+    scipyProblems.push({ name: "Robertson to t = 1e11", kind: "robertson", tEnd: 1e11, y0: [1, 0, 0], rtol: RTOL, atol, reference: ROBER_REF });
+  }
+  // HIRES, atol 1e-10
+  {
+    const atol = 1e-10;
+    const y0 = [1, 0, 0, 0, 0, 0, 0, 0.0057];
+    const r = timeIt(() => integrateStiff(hires(), 0, y0, 321.8122, { rtol: RTOL, atol }), 9);
+    if (!r.value.ok) throw new Error(`HIRES failed: ${r.value.error.message}`);
+    cases.push({ name: "HIRES to t = 321.8122", wallMsMedian: r.ms, runs: 9, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, HIRES_REF, atol), extra: { rtol: RTOL, atol } });
+    scipyProblems.push({ name: "HIRES to t = 321.8122", kind: "hires", tEnd: 321.8122, y0, rtol: RTOL, atol, reference: HIRES_REF });
+  }
+  // generated networks through the full simulate() path
+  for (const N of [50, 200, 1000]) {
+    const atol = 1e-12;
+    const net = stiffNetwork(N, 1234 + N);
+    const compiled = compileMechanism(net.mechanism);
+    if (!compiled.ok) throw new Error(compiled.error.message);
+    const model = compiled.value;
+    const rc = Array.from({ length: model.nReactions }, (_, r) => ({ kf: () => net.kf[r], kr: () => net.kr[r] }));
+    const sim = (rtol: number, at: number, budget: number) =>
+      simulate(model, {
+        rateConstants: rc,
+        temperature: { kind: "isothermal", T: 298.15 },
+        initial: net.c0,
+        tEnd: net.tEnd,
+        grid: { kind: "times", times: [net.tEnd] },
+        rtol,
+        atol: at,
+        conservation: false,
+        maxSteps: 1e6,
+        maxWallMs: budget,
+      });
+    const name = `stiff network N = ${N} (${model.nReactions} reversible steps)`;
+    const first = sim(RTOL, atol, NETWORK_BUDGET_MS);
+    if (!first.ok) {
+      cases.push({ name, wallMsMedian: NaN, runs: 0, extra: { status: `not finished: ${first.error.message}` } });
+      console.error(`done: ${name} (not finished)`);
+      continue;
+    }
+    const ref = sim(1e-10, 1e-18, 10 * NETWORK_BUDGET_MS);
+    const yRef = ref.ok ? ref.value.conc.map((c) => c[c.length - 1]) : null;
+    const runs = first.value.stats.wallMs > 5000 ? 1 : N >= 1000 ? 3 : 5;
+    const r = runs === 1 ? { ms: first.value.stats.wallMs, value: first } : timeIt(() => sim(RTOL, atol, NETWORK_BUDGET_MS), runs, 0);
+    if (!r.value.ok) throw new Error(`network ${N} failed: ${r.value.error.message}`);
+    const y = r.value.value.conc.map((c) => c[c.length - 1]);
+    let m0 = 0, m1 = 0;
+    for (let i = 0; i < N; i++) ((m0 += net.mass[i] * net.c0[i]), (m1 += net.mass[i] * y[i]));
+    cases.push({
+      name,
+      wallMsMedian: r.ms,
+      runs,
+      steps: r.value.value.stats.accepted,
+      maxRelError: yRef ? maxRelError(y, yRef, atol) : undefined,
+      extra: { rtol: RTOL, atol, massDrift: Math.abs(m1 - m0) / m0, rejected: r.value.value.stats.rejected, reference: ref.ok ? "RODAS4 rtol 1e-10" : `none: ${ref.error.message}` },
+    });
+    if (yRef) scipyProblems.push({ name, kind: "network", tEnd: net.tEnd, y0: Array.from(net.c0), rtol: RTOL, atol, reference: yRef, network: JSON.parse(networkToJson(net)) });
+    console.error(`done: ${name}`);
+  }
+  // rate constants
+  cases.push(...(await benchRates()));
+
+  if (!process.argv.includes("--no-scipy")) {
+    const sc = runScipy(scipyProblems);
+    if (sc) {
+      for (const c of cases) {
+        const res = sc[c.name];
+        if (!res) continue;
+        const okRuns = res.filter((x) => x.status === "ok");
+        for (const x of res) c.extra = { ...c.extra, [`scipy ${x.method} ms`]: x.ms, [`scipy ${x.method} err`]: x.maxRelError, [`scipy ${x.method} status`]: x.status };
+        if (okRuns.length === 0) continue;
+        const best = okRuns.reduce((a, b) => (b.ms < a.ms ? b : a));
+        c.scipyFastestMs = best.ms;
+        c.scipyFastestMethod = best.method;
+        c.speedup = best.ms / c.wallMsMedian;
+      }
+    }
+  }
+  return cases;
+}
+
+export const suite: BenchSuite = { name: "engine", run };
