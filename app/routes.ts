@@ -14,6 +14,9 @@ export default [
   route("runs", "routes/runs.tsx"),
   route("data", "routes/data.tsx"),
   route("analysis", "routes/analysis.tsx"),
+  route("runs/new", "routes/runs.new.tsx"),
+  route("runs/compare", "routes/runs.compare.tsx"),
+  route("runs/:id", "routes/runs.$id.tsx"),
 
   // Accounts, groups and sign-in
   route("sign-in", "routes/sign-in.tsx"),
