@@ -1,6 +1,6 @@
 /** The frame around every page: brand, main navigation, account menu. */
 import type { ReactNode } from "react";
-import { Form, Link, NavLink } from "react-router";
+import { Form, Link, NavLink, useLocation } from "react-router";
 import { Wordmark } from "./Logo";
 
 export interface ShellUser {
@@ -29,6 +29,8 @@ function navClass({ isActive }: { isActive: boolean }) {
 }
 
 export function AppShell({ user, csrf, children }: { user: ShellUser | null; csrf?: string; children: ReactNode }) {
+  // The account menu closes when the page changes (a new key remounts the <details>).
+  const { pathname } = useLocation();
   return (
     <div className="flex min-h-screen flex-col">
       <header className="bg-ink-900 text-white">
@@ -45,7 +47,7 @@ export function AppShell({ user, csrf, children }: { user: ShellUser | null; csr
           </nav>
           <div className="ml-auto">
             {user ? (
-              <details className="relative">
+              <details className="relative" key={pathname}>
                 <summary className="cursor-pointer list-none rounded-md px-3 py-1.5 text-sm text-ink-100 hover:bg-ink-800">
                   {user.name} <span className="text-ink-300">· {user.role}</span>
                 </summary>

@@ -1,0 +1,57 @@
+// Registration in Chromium: create an account, find the confirmation mail in the
+// development mailbox (caught by the local SMTP catcher), follow the link, sign in; the
+// link then reports that it was used.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { randomBytes } from "node:crypto";
+import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+
+describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e-mail confirmation", () => {
+  let b: BrowserSession;
+  const email = `ines.varga.${randomBytes(3).toString("hex")}@example.test`;
+  beforeAll(async () => {
+    b = await openBrowser();
+  });
+  afterAll(async () => {
+    await b?.close();
+  });
+
+  it("registers, confirms through the mailbox link, and signs in", async () => {
+    const { page } = b;
+    await page.goto(appUrl() + "/register");
+    await page.getByLabel("Name", { exact: true }).fill("Inès Varga");
+    await page.getByLabel("E-mail", { exact: true }).fill(email);
+    await page.getByLabel("Password", { exact: true }).fill("short");
+    await page.getByLabel("Password again").fill("short");
+    await page.getByRole("button", { name: "Create account" }).click();
+    await expect.poll(() => page.getByText("Use at least 10 characters.").isVisible()).toBe(true);
+    expect(await page.getByLabel("E-mail", { exact: true }).inputValue()).toBe(email);
+    // The refusal is an HTTP 400, which Chromium reports on the console; nothing else may be.
+    expect(b.problems.filter((p) => !/status of 400/.test(p))).toEqual([]);
+    b.problems.length = 0;
+    await page.getByLabel("Password", { exact: true }).fill("arrhenius-plot-7");
+    await page.getByLabel("Password again").fill("arrhenius-plot-7");
+    await page.getByRole("button", { name: "Create account" }).click();
+    await page.waitForURL(/\/sign-in\?notice=registered$/);
+
+    await page.getByRole("link", { name: "mailbox" }).click();
+    await page.waitForURL(/\/dev\/mailbox/);
+    const mail = page.getByRole("article", { name: "Confirm your e-mail address for Saddlebook" }).filter({ hasText: email });
+    await expect.poll(() => mail.count(), { timeout: 10_000 }).toBe(1);
+    await b.screenshot("auth-dev-mailbox");
+    const link = mail.getByRole("link", { name: /\/verify-email\?token=/ });
+    const href = await link.getAttribute("href");
+    await link.click();
+    await expect.poll(() => page.getByRole("status").first().textContent()).toBe("Your e-mail address is confirmed.");
+
+    await page.getByRole("link", { name: "Sign in" }).last().click();
+    await page.getByLabel("E-mail", { exact: true }).fill(email);
+    await page.getByLabel("Password", { exact: true }).fill("arrhenius-plot-7");
+    await page.getByRole("button", { name: "Sign in", exact: true }).click();
+    await page.waitForURL(appUrl() + "/");
+    expect(await page.locator("header summary").textContent()).toContain("Inès Varga");
+
+    await page.goto(href!, { waitUntil: "networkidle" });
+    expect(await page.getByRole("alert").textContent()).toBe("This link has already been used. Ask for a new one if you still need it.");
+    expect(b.problems).toEqual([]);
+  });
+});
