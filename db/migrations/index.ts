@@ -9,6 +9,7 @@ import * as m0100 from "./0100_auth_tokens";
 import * as m0200 from "./0200_library";
 import * as m0210 from "./0210_mechanisms";
 import * as m0300 from "./0300_workbench";
+import * as m0310 from "./0310_workbench_mechanism_links";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -21,6 +22,7 @@ const list: Array<[string, Migration]> = [
   ["0200_library", m0200],
   ["0210_mechanisms", m0210],
   ["0300_workbench", m0300],
+  ["0310_workbench_mechanism_links", m0310],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {
