@@ -1,0 +1,100 @@
+// The library journeys in Chromium against the served app with the illustrative demo seed:
+// search the library and open a step; build a mechanism from two library steps and one new
+// step; fork a colleague's mechanism as another demo user and see the diff.
+import { afterEach, describe, expect, it } from "vitest";
+import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+
+async function signIn(b: BrowserSession, email: string) {
+  await b.page.goto(appUrl() + "/sign-in");
+  await b.page.fill('input[name="email"]', email);
+  await b.page.fill('input[name="password"]', "saddlebook-demo");
+  await b.page.getByRole("button", { name: "Sign in", exact: true }).click();
+  await b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
+}
+
+describe.skipIf(!hasApp())("library journeys in the browser", () => {
+  let b: BrowserSession | undefined;
+  afterEach(async () => {
+    await b?.close();
+    b = undefined;
+  });
+
+  it("searches the library as you type (typo-tolerant) and opens a step", async () => {
+    b = await openBrowser();
+    await signIn(b, "viewer@saddlebook.test");
+    const { page } = b;
+    await page.goto(appUrl() + "/library");
+    await page.getByLabel(/Search species/).fill("ketene traping");
+    await page.waitForURL(/q=ketene\+traping/);
+    const first = page.locator("tbody a", { hasText: "Ketene trapping" }).first();
+    await first.waitFor();
+    await first.click();
+    await page.waitForURL(/\/steps\/\d+$/);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toMatch(/Ketene trapping/);
+    expect(await page.getByText(/k\(T\) over the validity range/).count()).toBe(1);
+    expect(await page.getByText("Provenance").count()).toBeGreaterThan(0);
+    expect(b.problems).toEqual([]);
+    await b.screenshot("library-step");
+  });
+
+  it("builds a mechanism from two library steps and one new local step", async () => {
+    b = await openBrowser();
+    await signIn(b, "author2@saddlebook.test");
+    const { page } = b;
+    await page.goto(appUrl() + "/mechanisms");
+    await page.getByLabel("Name", { exact: true }).fill("Browser-built mechanism <b>escaped</b>");
+    await page.getByRole("button", { name: "Create" }).click();
+    await page.waitForURL(/\/mechanisms\/\d+$/);
+    const search = page.getByLabel("Search the library");
+    await search.fill("Background acetylation of ethanol");
+    await page.getByRole("button", { name: "Add Background acetylation of ethanol" }).click();
+    await search.fill("Anhydride hydrolysis uncatalysed");
+    await page.getByRole("button", { name: "Add Anhydride hydrolysis (uncatalysed)" }).click();
+    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(2);
+    await page.getByLabel("Local step label").fill("Ketene dimerisation (my estimate)");
+    await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+    await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+    await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
+    await page.getByLabel("Local step ΔG‡").fill("18");
+    await page.getByLabel("Local step energy unit").selectOption("kcal/mol");
+    await page.getByRole("button", { name: "Add local step" }).click();
+    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(3);
+    await page.getByLabel("What changed").fill("Two library steps and a local dimerisation");
+    await page.getByRole("button", { name: /Save as version 2/ }).click();
+    await page.waitForURL(/saved=2/);
+    const rows = page.getByTestId("mechanism-steps").locator("tbody tr");
+    await expect.poll(() => rows.count()).toBe(3);
+    expect(await rows.nth(0).textContent()).toContain("library v");
+    expect(await rows.nth(2).textContent()).toContain("local");
+    // The label is shown as text, not as markup.
+    expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe("Browser-built mechanism <b>escaped</b>");
+    expect(b.problems).toEqual([]);
+    await b.screenshot("library-mechanism-built");
+  });
+
+  it("forks a colleague's mechanism and sees the differences from the parent", async () => {
+    b = await openBrowser();
+    await signIn(b, "curator@saddlebook.test");
+    const { page } = b;
+    await page.goto(appUrl() + "/mechanisms");
+    await page.getByRole("link", { name: /alcohol series/ }).first().click();
+    await page.waitForURL(/\/mechanisms\/\d+$/);
+    await page.getByRole("button", { name: "Fork into my space" }).click();
+    await page.waitForURL(/\/mechanisms\/\d+\/lineage$/);
+    await page.getByTestId("diff").waitFor();
+    expect(await page.getByTestId("diff").textContent()).toContain("0 step(s) added, 0 removed, 0 changed");
+    const forkUrl = page.url().replace(/\/lineage$/, "");
+    await page.goto(forkUrl);
+    await page.getByRole("button", { name: /^Remove Background acetylation of tert-butanol/ }).click();
+    await page.getByLabel("What changed").fill("Without tert-butanol");
+    await page.getByRole("button", { name: /Save as version 2/ }).click();
+    await page.waitForURL(/saved=2/);
+    await page.goto(forkUrl + "/lineage?T=330");
+    await page.getByTestId("diff").waitFor();
+    expect(await page.getByText("Steps removed").count()).toBe(1);
+    expect(await page.getByTestId("diff").textContent()).toContain("tert-butanol");
+    expect(await page.getByTestId("diff").textContent()).toContain("330 K");
+    expect(b.problems).toEqual([]);
+    await b.screenshot("library-fork-diff");
+  });
+});
