@@ -13,6 +13,7 @@ export default [
   route("mechanisms/:id/lineage", "routes/mechanisms.$id.lineage.tsx"),
   route("runs", "routes/runs.tsx"),
   route("data", "routes/data.tsx"),
+  route("data/:id", "routes/data.$id.tsx"),
   route("analysis", "routes/analysis.tsx"),
   route("runs/new", "routes/runs.new.tsx"),
   route("runs/compare", "routes/runs.compare.tsx"),

@@ -17,6 +17,7 @@ import { dirname, join, resolve } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { claimRun, endRunWithoutResults, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
 import type { RunTaskInput, RunTaskResult } from "./run-task";
+import type { FitTaskInput, FitTaskResult } from "./fit-task";
 
 export interface ComputeOptions {
   /** Worker module (file path or URL); default app/compute/simulate-worker.mjs. */
@@ -86,6 +87,21 @@ export class ComputeService {
     this.waiting.push(runId);
     this.pump();
     return p;
+  }
+
+  /** A barrier fit in a worker; terminated when it overruns its budget by more than graceMs. */
+  async fit(input: FitTaskInput): Promise<FitTaskResult> {
+    const control = new SharedArrayBuffer(4);
+    const abort = new AbortController();
+    const timer = setTimeout(() => abort.abort(new Error("budget")), input.maxWallMs + this.graceMs);
+    try {
+      return (await this.pool.run({ kind: "fit", input, progress: new SharedArrayBuffer(16), control }, { signal: abort.signal })) as FitTaskResult;
+    } catch (e) {
+      if (abort.signal.aborted) return { ok: false, message: `The fit exceeded its wall-time budget of ${input.maxWallMs} ms and was stopped.` };
+      return { ok: false, message: `The fit worker stopped unexpectedly (${e instanceof Error ? e.message : String(e)}).` };
+    } finally {
+      clearTimeout(timer);
+    }
   }
 
   /** Raise the stop flag of a running run in this process (the DB flag is set by the caller). */
@@ -166,7 +182,7 @@ export class ComputeService {
     let result: RunTaskResult | null = null;
     let crash: string | null = null;
     try {
-      result = (await this.pool.run({ input, progress, control }, { signal: active.abort.signal })) as RunTaskResult;
+      result = (await this.pool.run({ kind: "run", input, progress, control }, { signal: active.abort.signal })) as RunTaskResult;
     } catch (e) {
       crash = e instanceof Error ? e.message : String(e);
     } finally {

@@ -1,0 +1,290 @@
+/**
+ * /data/:id — one measured dataset: its points on a plot and in a table, overlay on a run, and
+ * the barrier fit: choose a finished run as the model (its mechanism snapshot and initial
+ * concentrations, at the dataset's temperature), tick the steps whose barriers move, fit. The
+ * result (?fit=<id>) shows each barrier entered → fitted with its standard error, the residuals
+ * and the fit statistics.
+ */
+import { useMemo } from "react";
+import { Form, Link, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/data.$id";
+import { requireUser } from "~/auth/current-user.server";
+import { assertCsrf } from "~/auth/csrf.server";
+import { can, type Actor } from "~/auth/policy.server";
+import { CsrfInput } from "~/components/CsrfInput";
+import { ConcentrationPlot, type PlotSeries } from "~/components/plots/ConcentrationPlot";
+import { ResultsTable } from "~/components/plots/ResultsTable";
+import { seriesColour } from "~/components/plots/palette";
+import { num } from "~/components/workbench/format";
+import { toEngineConditions } from "~/compute/run-request";
+import { getComputeService } from "~/compute/pool.server";
+import { readableRun } from "~/compute/run-api.server";
+import { getDb } from "../../db/client.server";
+import { datasetAsOwned, datasetInSI, getDataset, type DatasetRecord } from "../../db/access/datasets.server";
+import { listRuns, runAsOwned } from "../../db/access/runs.server";
+import { createFit, getFit, listFitsForDataset } from "../../db/access/fits.server";
+
+export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
+  return [{ title: `${data?.dataset?.name ?? "Dataset"} · Saddlebook` }];
+}
+
+async function readable(actor: Actor, idParam: string | undefined): Promise<DatasetRecord> {
+  const id = Number(idParam);
+  const d = Number.isInteger(id) && id > 0 ? await getDataset(getDb(), id) : null;
+  if (!d || !can(actor, { do: "dataset.read", object: datasetAsOwned(d) })) throw new Response("There is no dataset with this number that you can see.", { status: 404 });
+  return d;
+}
+
+const FIT_BUDGET_MS = 60_000;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const d = await readable(user, params.id);
+  const db = getDb();
+  const si = datasetInSI(d);
+  const species = Object.values(d.mapping.species);
+  const runs = (await listRuns(db, user, { limit: 60 })).filter((r) => r.status === "done");
+  const candidates = [];
+  for (const r of runs.slice(0, 30)) {
+    const full = await readableRun(db, user, String(r.id));
+    if (!full.ok) continue;
+    const snap = full.run.snapshot as { steps?: { id: string }[]; species?: { id: string }[] };
+    const ids = (snap.species ?? []).map((s) => s.id);
+    candidates.push({ id: r.id, name: r.name, steps: (snap.steps ?? []).map((s) => s.id), matches: species.filter((s) => ids.includes(s)).length });
+  }
+  const fitId = Number(new URL(request.url).searchParams.get("fit") ?? "");
+  const fit = Number.isInteger(fitId) && fitId > 0 ? await getFit(db, fitId) : null;
+  return {
+    dataset: {
+      id: d.id,
+      name: d.name,
+      notes: d.notes,
+      owner: d.ownerName ?? "",
+      temperatureK: d.temperatureK,
+      timeUnit: d.timeUnit,
+      concentrationUnit: d.concentrationUnit,
+      mapping: d.mapping,
+      rowCount: d.rowCount,
+      sourceFilename: d.sourceFilename,
+      createdAt: d.createdAt.toISOString(),
+    },
+    series: si.series,
+    runs: candidates,
+    fits: await listFitsForDataset(db, d.id, user.id),
+    fit: fit && fit.ownerId === user.id && fit.datasetIds.includes(d.id) ? fit : null,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = await request.formData();
+  await assertCsrf(request, form);
+  const d = await readable(user, params.id);
+  const db = getDb();
+  const r = await readableRun(db, user, String(form.get("runId") ?? ""));
+  if (!r.ok) return { message: "Choose a finished run as the model." };
+  const run = r.run;
+  if (run.status !== "done") return { message: `Run #${run.id} has not finished.` };
+  if (!can(user, { do: "run.create", object: runAsOwned(run) })) return { message: "Your role does not allow fitting (authors and above may)." };
+  const stepIds = form.getAll("step").map(String).filter(Boolean);
+  if (stepIds.length === 0) return { message: "Tick at least one step whose barrier is to be fitted." };
+  const snap = run.snapshot as { species: { id: string }[] };
+  const speciesIds = snap.species.map((s) => s.id);
+  const cond = toEngineConditions(run.conditions, speciesIds);
+  if (!cond.ok) return { message: cond.error.message };
+  const si = datasetInSI(d);
+  const missing = si.series.filter((s) => !speciesIds.includes(s.species)).map((s) => s.species);
+  const observations = si.series.filter((s) => speciesIds.includes(s.species) && s.times.length > 0);
+  if (observations.length === 0) return { message: `None of the dataset's species (${si.series.map((s) => s.species).join(", ")}) is in run #${run.id}'s mechanism.` };
+  const out = await getComputeService(db).fit({
+    snapshot: run.snapshot,
+    experiments: [{ id: d.name, temperatureK: d.temperatureK, initial: cond.value.initial, observations }],
+    stepIds,
+    maxWallMs: FIT_BUDGET_MS,
+  });
+  if (!out.ok) return { message: `The fit did not succeed: ${out.message}` };
+  const fitId = await createFit(db, { ownerId: user.id, mechanismId: run.mechanismId, mechanismVersion: run.mechanismVersion, snapshot: run.snapshot, datasetIds: [d.id], stepIds, output: out.value, runId: run.id });
+  return redirect(`/data/${d.id}?fit=${fitId}${missing.length ? `&ignored=${encodeURIComponent(missing.join(","))}` : ""}`);
+}
+
+export default function DatasetPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { dataset: d, series, runs, fit, fits } = loaderData;
+  const nav = useNavigation();
+  const plot = useMemo<PlotSeries[]>(() => series.map((s) => ({ key: s.species, label: `${s.species} (measured)`, times: s.times, values: s.values, markers: true })), [series]);
+  const tableSeries = useMemo(() => series.map((s) => ({ key: s.species, label: s.species, times: s.times, values: s.values })), [series]);
+  return (
+    <div className="space-y-4">
+      <header className="flex flex-wrap items-center gap-3">
+        <h1 className="text-2xl font-semibold tracking-tight">{d.name}</h1>
+        <Link to="/data" className="btn-quiet ml-auto">
+          All datasets
+        </Link>
+      </header>
+      <section className="panel grid gap-x-6 gap-y-1 text-sm sm:grid-cols-2">
+        <div>
+          <span className="text-ink-500">Temperature:</span> <span className="num">{num(d.temperatureK, 6)} K</span> ({num(d.temperatureK - 273.15, 5)} °C)
+        </div>
+        <div>
+          <span className="text-ink-500">Columns:</span> time “{d.mapping.time}” in {d.timeUnit};{" "}
+          {Object.entries(d.mapping.species)
+            .map(([c, s]) => (c === s ? s : `“${c}” → ${s}`))
+            .join(", ")}{" "}
+          in {d.concentrationUnit === "umol/L" ? "µmol/L" : d.concentrationUnit}
+        </div>
+        <div>
+          <span className="text-ink-500">Rows:</span> <span className="num">{d.rowCount}</span>
+          {d.sourceFilename && <> from {d.sourceFilename}</>}
+        </div>
+        <div>
+          <span className="text-ink-500">Uploaded by</span> {d.owner}, {d.createdAt.slice(0, 16).replace("T", " ")} UTC
+        </div>
+        {d.notes && <div className="sm:col-span-2">{d.notes}</div>}
+      </section>
+      <section className="panel">
+        <ConcentrationPlot series={plot} testId="dataset-plot" filename={`saddlebook-dataset-${d.id}.png`} />
+        <p className="mt-1 text-xs text-ink-500">Shown in s and mol/L (converted from the file's units).</p>
+      </section>
+
+      <section className="panel space-y-3">
+        <h2 className="font-semibold">Overlay on a run, or fit barriers</h2>
+        {runs.length === 0 ? (
+          <p className="text-sm text-ink-600">No finished runs yet: run the mechanism first, then overlay or fit.</p>
+        ) : (
+          <>
+            <ul className="flex flex-wrap gap-2 text-sm">
+              {runs.map((r) => (
+                <li key={r.id}>
+                  <Link className="btn-quiet py-0.5" to={`/runs/${r.id}?overlay=${d.id}`}>
+                    Overlay on #{r.id} {r.name}
+                  </Link>
+                </li>
+              ))}
+            </ul>
+            <Form method="post" className="space-y-2" aria-label="Fit barriers">
+              <CsrfInput />
+              <p className="text-sm text-ink-600">
+                Fit: the model is a run's mechanism snapshot with the run's initial concentrations, at this dataset's temperature. The chosen steps' barriers move together with every form they are entered in.
+              </p>
+              <FitChooser runs={runs} />
+              <button className="btn-primary" disabled={nav.state !== "idle"}>
+                {nav.state !== "idle" ? "Fitting…" : "Fit the ticked barriers"}
+              </button>
+              {actionData?.message && (
+                <p role="alert" className="text-sm text-brick-700" data-testid="fit-error">
+                  {actionData.message}
+                </p>
+              )}
+            </Form>
+          </>
+        )}
+        {fits.length > 0 && (
+          <p className="text-xs text-ink-500">
+            Earlier fits:{" "}
+            {fits.map((f) => (
+              <Link key={f.id} to={`?fit=${f.id}`} className="mr-2 underline">
+                #{f.id} ({f.steps.join(", ")})
+              </Link>
+            ))}
+          </p>
+        )}
+      </section>
+
+      {fit && <FitResult fit={fit} />}
+
+      <section className="panel">
+        <h2 className="mb-2 font-semibold">Values</h2>
+        <ResultsTable series={tableSeries} filename={`saddlebook-dataset-${d.id}.csv`} />
+      </section>
+    </div>
+  );
+}
+
+function FitChooser({ runs }: { runs: { id: number; name: string; steps: string[]; matches: number }[] }) {
+  const best = [...runs].sort((a, b) => b.matches - a.matches)[0];
+  return (
+    <div className="space-y-2">
+      <label className="block max-w-xl">
+        <span className="label">Model run</span>
+        <select name="runId" className="field" defaultValue={best?.id} aria-label="Model run">
+          {runs.map((r) => (
+            <option key={r.id} value={r.id}>
+              #{r.id} {r.name} ({r.matches} of the dataset's species)
+            </option>
+          ))}
+        </select>
+      </label>
+      <fieldset>
+        <legend className="label">Steps to fit (of the selected run's mechanism)</legend>
+        <div className="flex flex-wrap gap-3 text-sm">
+          {[...new Set(runs.flatMap((r) => r.steps))].slice(0, 200).map((s) => (
+            <label key={s} className="inline-flex items-center gap-1">
+              <input type="checkbox" name="step" value={s} aria-label={`Fit step ${s}`} /> {s}
+            </label>
+          ))}
+        </div>
+      </fieldset>
+    </div>
+  );
+}
+
+function FitResult({ fit }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]> }) {
+  const s = fit.statistics;
+  const resid = useMemo<PlotSeries[]>(
+    () =>
+      fit.residuals.flatMap((r, i) => [
+        { key: `${r.species}:resid`, label: `${r.species} model − measured`, times: r.times, values: r.residual, markers: true, colour: seriesColour(i) },
+      ]),
+    [fit],
+  );
+  const overlay = useMemo<PlotSeries[]>(
+    () =>
+      fit.residuals.flatMap((r, i) => [
+        { key: `${r.species}:m`, label: `${r.species} measured`, times: r.times, values: r.measured, markers: true, colour: seriesColour(i) },
+        { key: `${r.species}:f`, label: `${r.species} fitted model`, times: r.times, values: r.model, colour: seriesColour(i) },
+      ]),
+    [fit],
+  );
+  return (
+    <section className="panel space-y-3" data-testid="fit-result">
+      <h2 className="font-semibold">Fit #{fit.id}</h2>
+      <table className="w-full text-sm">
+        <thead className="text-left text-xs text-ink-500">
+          <tr>
+            <th className="py-1">Step</th>
+            <th>Barrier entered</th>
+            <th>Fitted</th>
+            <th>Shift ± SE</th>
+            <th>{Math.round(s.confidence * 100)} % interval</th>
+          </tr>
+        </thead>
+        <tbody>
+          {fit.fitted.map((p) => (
+            <tr key={p.stepId} className="border-t border-ink-100" data-testid={`fit-row-${p.stepId}`}>
+              <td className="py-1">{p.stepId}</td>
+              <td className="num">
+                {p.before.label} = {num(p.before.value, 6)} {p.before.unit === "k" ? "" : p.before.unit}
+              </td>
+              <td className="num" data-testid={`fit-after-${p.stepId}`}>
+                {p.after.label} = {num(p.after.value, 6)} {p.after.unit === "k" ? "" : p.after.unit}
+              </td>
+              <td className="num" data-testid={`fit-shift-${p.stepId}`} data-shift={p.shift} data-se={p.se}>
+                {num(p.shift / 1000, 4)} ± {num(p.se / 1000, 2)} kJ/mol
+              </td>
+              <td className="num">± {num(p.ci / 1000, 2)} kJ/mol</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {fit.fitted.some((p) => p.atBound) && <p className="text-sm text-brick-700">A shift ended on its bound (±60 kJ/mol); its standard error is not meaningful.</p>}
+      <p className="text-xs text-ink-500">
+        Least squares in mol/L (Levenberg–Marquardt); SE from s²(JᵀJ)⁻¹ with s² = SSR/(n − p). SSR {num(s.ssr, 3)} (start {num(s.ssrInitial, 3)}), n = {s.n}, {s.dof} degrees of freedom,{" "}
+        {s.iterations} iterations, {s.simulations} simulations, {s.converged ? "converged" : "not converged"} ({s.stopReason}), {num(s.wallMs, 3)} ms.
+        {fit.statistics.runId && <> Model: run #{fit.statistics.runId}.</>}
+      </p>
+      <div className="grid gap-4 lg:grid-cols-2">
+        <ConcentrationPlot series={overlay} title="Measured and fitted" testId="fit-plot" />
+        <ConcentrationPlot series={resid} title="Residuals (mol/L)" testId="residual-plot" />
+      </div>
+    </section>
+  );
+}
