@@ -45,6 +45,8 @@ export default [
   route("api/v1/runs/:id", "routes/api.v1.runs.$id.ts"),
   route("api/v1/runs/:id/cancel", "routes/api.v1.runs.$id.cancel.ts"),
   route("api/v1/runs/:id/results.csv", "routes/api.v1.runs.$id.results-csv.ts"),
+  route("api/v1/datasets", "routes/api.v1.datasets.ts"),
+  route("api/v1/datasets/:id", "routes/api.v1.datasets.$id.ts"),
   route("api/v1/steps", "routes/api.v1.steps.ts"),
   route("api/v1/steps/:id", "routes/api.v1.steps.$id.ts"),
   route("api/v1/steps/:id/versions", "routes/api.v1.steps.$id.versions.ts"),
