@@ -99,11 +99,11 @@ export function escapeLike(s: string): string {
 }
 
 /** FULLTEXT boolean-mode words: each term (≥ 3 characters) as a prefix; null when none. */
-export function ftWords(text: string, prefixLength?: number): string | null {
+export function ftWords(text: string, prefixLength?: number, all = false): string | null {
   const terms = text
     .toLowerCase()
     .split(/[^\p{L}\p{N}]+/u)
     .filter((t) => t.length >= 3);
   if (terms.length === 0) return null;
-  return terms.map((t) => (prefixLength ? t.slice(0, prefixLength) : t) + "*").join(" ");
+  return terms.map((t) => (all ? "+" : "") + (prefixLength ? t.slice(0, prefixLength) : t) + "*").join(" ");
 }

@@ -531,7 +531,9 @@ export interface StepSearchItem {
 }
 
 /** Candidate rows fetched from MariaDB before fuzzy ranking. */
-export const SEARCH_CANDIDATES = 400;
+export const SEARCH_CANDIDATES = 300;
+/** Best FULLTEXT matches considered per stage (all versions, before visibility and filters). */
+const FT_LIMIT = 2000;
 
 interface Cursor {
   o?: number; // offset into a ranked result
@@ -579,7 +581,7 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
   const T = query.T ?? T_REF;
   const cursor = decodeCursor(query.cursor);
   const curator = actor.role === "curator" || actor.role === "admin";
-  const q = db("steps as s").select(
+  const COLS = [
     "s.id",
     "s.owner_id",
     "s.updated_at",
@@ -598,35 +600,72 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
     "v.t_min",
     "v.t_max",
     "v.illustrative",
-    "v.search_text",
-  );
-  if (curator) q.join("step_versions as v", "v.id", "s.current_version_id");
-  else {
-    q.joinRaw("JOIN step_versions AS v ON v.id = IF(s.owner_id = ?, s.current_version_id, s.public_version_id)", [actor.id]);
-    q.where((w) => w.where("s.owner_id", actor.id).orWhereNotNull("s.public_version_id"));
-  }
-  if (query.mine) q.where("s.owner_id", actor.id);
-  if (query.status?.length) q.whereIn("v.status", query.status);
-  if (query.molecularity?.length) q.whereIn("v.molecularity", query.molecularity);
-  if (query.source?.length) q.whereIn("v.source_type", query.source);
-  if (query.tmin !== undefined) q.where("v.t_min", "<=", query.tmin);
-  if (query.tmax !== undefined) q.where("v.t_max", ">=", query.tmax);
-  if (query.tags?.length) q.whereExists(db("step_tags as t").whereRaw("t.step_id = s.id").whereIn("t.tag", query.tags));
+  ];
+  /** Filters of the query, on the visible version v of step s. */
+  const filtered = (q: Knex.QueryBuilder) => {
+    if (query.mine) q.where("s.owner_id", actor.id);
+    if (query.status?.length) {
+      q.whereIn("v.status", query.status);
+      // Narrow by index as well: a curator sees the current version (its status is the step's);
+      // anyone else sees drafts and proposals of their own steps only.
+      if (curator) q.whereIn("s.status", query.status);
+      else if (query.status.every((st) => st === "draft" || st === "proposed")) q.where("s.owner_id", actor.id);
+    }
+    if (query.molecularity?.length) q.whereIn("v.molecularity", query.molecularity);
+    if (query.source?.length) q.whereIn("v.source_type", query.source);
+    if (query.tmin !== undefined) q.where("v.t_min", "<=", query.tmin);
+    if (query.tmax !== undefined) q.where("v.t_max", ">=", query.tmax);
+    if (query.tags?.length) q.whereExists(db("step_tags as t").whereRaw("t.step_id = s.id").whereIn("t.tag", query.tags));
+    return q;
+  };
+  /** The version each step shows to this actor: curators see the current one; others their own current or the public one. */
+  const visible = (q: Knex.QueryBuilder) => {
+    if (curator) q.whereRaw("v.id = s.current_version_id");
+    else {
+      q.whereRaw("v.id = IF(s.owner_id = ?, s.current_version_id, s.public_version_id)", [actor.id]);
+      q.where((w) => w.where("s.owner_id", actor.id).orWhereNotNull("s.public_version_id"));
+    }
+    return q;
+  };
 
   const text = query.q?.trim() ?? "";
   let rows: Array<Record<string, unknown>>;
   let ranked: Array<{ row: Record<string, unknown>; score: number | null }>;
   let nextCursor: string | null = null;
   if (text) {
-    // Prefix of each word (first 3 letters) so a typo later in the word still finds it.
-    const words = ftWords(text, 3);
-    if (words) {
-      q.whereRaw("MATCH(v.search_text) AGAINST (? IN BOOLEAN MODE)", [words]);
-      q.orderByRaw("MATCH(v.search_text) AGAINST (? IN BOOLEAN MODE) DESC", [words]);
-    } else {
-      q.orderBy("s.updated_at", "desc");
+    // FULLTEXT narrows in stages, each on step_versions alone (so its index drives the query):
+    // all words as prefixes, then any word, then the first 4 letters of each word (a typo later
+    // in a word still finds it). fuse.js then ranks the candidates typo-tolerantly.
+    // Stages: every word as a prefix; every word by its first 4 letters (a typo later in a word
+    // still finds it); any word. The first stage that finds something gives the candidates.
+    const nWords = text.split(/[^\p{L}\p{N}]+/u).filter((w) => w.length >= 3).length;
+    const stages = [ftWords(text, undefined, true), ftWords(text, 4, true), nWords > 1 ? ftWords(text) : null].filter((w, i, a): w is string => !!w && a.indexOf(w) === i);
+    rows = [];
+    const seen = new Set<unknown>();
+    for (const words of stages) {
+      const ft = db("step_versions")
+        .select("id", db.raw("MATCH(search_text) AGAINST (? IN BOOLEAN MODE) AS ft_score", [words]))
+        .whereRaw("MATCH(search_text) AGAINST (? IN BOOLEAN MODE)", [words])
+        .orderBy("ft_score", "desc")
+        .limit(FT_LIMIT);
+      const q = db
+        .from(ft.as("ft"))
+        .join("step_versions as v", "v.id", "ft.id")
+        .join("steps as s", "s.id", "v.step_id")
+        .select([...COLS, "v.search_text"])
+        .orderBy("ft.ft_score", "desc")
+        .limit(SEARCH_CANDIDATES);
+      for (const r of (await filtered(visible(q))) as Array<Record<string, unknown>>) {
+        if (!seen.has(r.id)) (seen.add(r.id), rows.push(r));
+      }
+      if (rows.length > 0) break;
     }
-    rows = await q.limit(SEARCH_CANDIDATES);
+    if (stages.length === 0) {
+      // Only short words: the newest steps are the candidates.
+      rows = await filtered(visible(db("steps as s").join("step_versions as v", "v.step_id", "s.id").select([...COLS, "v.search_text"])))
+        .orderBy("s.updated_at", "desc")
+        .limit(SEARCH_CANDIDATES);
+    }
     const docs = rows.map((r) => ({ row: r, label: r.label as string, tags: (parseJson<string[] | null>(r.tags) ?? []).join(" "), method: r.method ?? "", citation: r.citation ?? "", text: r.search_text as string }));
     const fuse = new Fuse(docs, {
       keys: [
@@ -642,12 +681,15 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
       minMatchCharLength: 2,
     });
     const found = fuse.search(text);
-    ranked = found.length ? found.map((f) => ({ row: f.item.row, score: f.score ?? null })) : words ? rows.map((row) => ({ row, score: null })) : [];
+    ranked = found.length ? found.map((f) => ({ row: f.item.row, score: f.score ?? null })) : stages.length ? rows.map((row) => ({ row, score: null })) : [];
     const offset = cursor.o ?? 0;
     const page = ranked.slice(offset, offset + limit);
     if (offset + limit < ranked.length) nextCursor = encodeCursor({ o: offset + limit });
     ranked = page;
   } else {
+    // Walk the steps newest first by index; the optimizer otherwise merges two indexes and sorts them all.
+    const from = query.status?.length || query.mine ? db.raw("steps AS s") : db.raw("steps AS s FORCE INDEX (steps_updated_idx)");
+    const q = filtered(visible(db.from(from).join("step_versions as v", "v.step_id", "s.id").select(COLS)));
     if (cursor.u && cursor.i) {
       const u = new Date(cursor.u);
       q.where((w) => w.where("s.updated_at", "<", u).orWhere((w2) => w2.where("s.updated_at", "=", u).andWhere("s.id", "<", cursor.i!)));
