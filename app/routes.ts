@@ -8,6 +8,7 @@ export default [
   route("steps/:id", "routes/steps.$id.tsx"),
   route("steps/:id/edit", "routes/steps.$id.edit.tsx"),
   route("mechanisms", "routes/mechanisms.tsx"),
+  route("mechanisms/:id/workbench", "routes/mechanisms.$id.workbench.tsx"),
   route("mechanisms/:id", "routes/mechanisms.$id.tsx"),
   route("mechanisms/:id/history", "routes/mechanisms.$id.history.tsx"),
   route("mechanisms/:id/lineage", "routes/mechanisms.$id.lineage.tsx"),

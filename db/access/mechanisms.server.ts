@@ -418,17 +418,19 @@ export interface MechanismDetail {
 export async function getMechanism(db: Knex, actor: Actor | null, id: number, versionNumber?: number): Promise<MechanismDetail> {
   const m = await getMechanismRow(db, actor, id);
   const { row, snapshot } = await getVersionSnapshot(db, id, versionNumber ?? m.current_version);
-  const resolved = await resolveSnapshot(db, row.name, snapshot);
   const pinned = snapshot.steps.flatMap((e) => (e.kind === "library" ? [e.stepVersionId] : []));
-  const newer = await newerApprovedVersions(db, pinned);
+  const [resolved, newer, p, forkRows] = await Promise.all([
+    resolveSnapshot(db, row.name, snapshot),
+    newerApprovedVersions(db, pinned),
+    m.forked_from_mechanism_id ? db("mechanisms").where({ id: m.forked_from_mechanism_id }).first("id", "name", "owner_id", "visibility", "group_id") : Promise.resolve(null),
+    db("mechanisms as m")
+      .join("users as u", "u.id", "m.owner_id")
+      .where("m.forked_from_mechanism_id", id)
+      .select("m.id", "m.name", "m.owner_id", "m.visibility", "m.group_id", "m.forked_from_version", "u.name as owner"),
+  ]);
   const updates: MechanismDetail["updates"] = {};
   for (const e of snapshot.steps) if (e.kind === "library" && newer.has(e.stepVersionId)) { const n = newer.get(e.stepVersionId)!; updates[e.key] = { stepVersionId: n.versionId, number: n.number }; }
-  let parent: MechanismDetail["parent"] = null;
-  if (m.forked_from_mechanism_id) {
-    const p = await db("mechanisms").where({ id: m.forked_from_mechanism_id }).first();
-    if (p) parent = { id: p.id, name: p.name, version: m.forked_from_version, readable: can(actor, { do: "mechanism.read", object: owned(p) }) };
-  }
-  const forkRows = await db("mechanisms as m").join("users as u", "u.id", "m.owner_id").where("m.forked_from_mechanism_id", id).select("m.*", "u.name as owner");
+  const parent: MechanismDetail["parent"] = p ? { id: p.id, name: p.name, version: m.forked_from_version, readable: can(actor, { do: "mechanism.read", object: owned(p) }) } : null;
   const forks = forkRows
     .filter((f: MechanismRow) => can(actor, { do: "mechanism.read", object: owned(f) }))
     .map((f: MechanismRow & { owner: string }) => ({ id: f.id, name: f.name, owner: f.owner, forked_from_version: f.forked_from_version }));

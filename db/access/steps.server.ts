@@ -531,9 +531,9 @@ export interface StepSearchItem {
 }
 
 /** Candidate rows fetched from MariaDB before fuzzy ranking. */
-export const SEARCH_CANDIDATES = 300;
+export const SEARCH_CANDIDATES = 200;
 /** Best FULLTEXT matches considered per stage (all versions, before visibility and filters). */
-const FT_LIMIT = 2000;
+const FT_LIMIT = 1000;
 
 interface Cursor {
   o?: number; // offset into a ranked result
@@ -634,12 +634,12 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
   let nextCursor: string | null = null;
   if (text) {
     // FULLTEXT narrows in stages, each on step_versions alone (so its index drives the query):
-    // all words as prefixes, then any word, then the first 4 letters of each word (a typo later
-    // in a word still finds it). fuse.js then ranks the candidates typo-tolerantly.
-    // Stages: every word as a prefix; every word by its first 4 letters (a typo later in a word
+    // all words as prefixes, then their first 5 letters (a typo later in a word still finds it),
+    // then any word. fuse.js then ranks the candidates typo-tolerantly.
+    // Stages: every word as a prefix; every word by its first 5 letters (a typo later in a word
     // still finds it); any word. The first stage that finds something gives the candidates.
     const nWords = text.split(/[^\p{L}\p{N}]+/u).filter((w) => w.length >= 3).length;
-    const stages = [ftWords(text, undefined, true), ftWords(text, 4, true), nWords > 1 ? ftWords(text) : null].filter((w, i, a): w is string => !!w && a.indexOf(w) === i);
+    const stages = [ftWords(text, undefined, true), ftWords(text, 5, true), nWords > 1 ? ftWords(text) : null].filter((w, i, a): w is string => !!w && a.indexOf(w) === i);
     rows = [];
     const seen = new Set<unknown>();
     for (const words of stages) {
@@ -652,7 +652,7 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
         .from(ft.as("ft"))
         .join("step_versions as v", "v.id", "ft.id")
         .join("steps as s", "s.id", "v.step_id")
-        .select([...COLS, "v.search_text"])
+        .select(COLS)
         .orderBy("ft.ft_score", "desc")
         .limit(SEARCH_CANDIDATES);
       for (const r of (await filtered(visible(q))) as Array<Record<string, unknown>>) {
@@ -662,18 +662,18 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
     }
     if (stages.length === 0) {
       // Only short words: the newest steps are the candidates.
-      rows = await filtered(visible(db("steps as s").join("step_versions as v", "v.step_id", "s.id").select([...COLS, "v.search_text"])))
+      rows = await filtered(visible(db("steps as s").join("step_versions as v", "v.step_id", "s.id").select(COLS)))
         .orderBy("s.updated_at", "desc")
         .limit(SEARCH_CANDIDATES);
     }
-    const docs = rows.map((r) => ({ row: r, label: r.label as string, tags: (parseJson<string[] | null>(r.tags) ?? []).join(" "), method: r.method ?? "", citation: r.citation ?? "", text: r.search_text as string }));
+    // fuse.js ranks on the short fields (label with species names, tags, method); candidates
+    // FULLTEXT found only in longer text (formulas, citation, notes) follow in FULLTEXT order.
+    const docs = rows.map((r) => ({ row: r, label: r.label as string, tags: (parseJson<string[] | null>(r.tags) ?? []).join(" "), method: r.method ?? "" }));
     const fuse = new Fuse(docs, {
       keys: [
         { name: "label", weight: 3 },
         { name: "tags", weight: 2 },
         { name: "method", weight: 1 },
-        { name: "citation", weight: 1 },
-        { name: "text", weight: 1.5 },
       ],
       includeScore: true,
       ignoreLocation: true,
@@ -681,7 +681,8 @@ export async function searchSteps(db: Knex, actor: Actor | null, query: StepSear
       minMatchCharLength: 2,
     });
     const found = fuse.search(text);
-    ranked = found.length ? found.map((f) => ({ row: f.item.row, score: f.score ?? null })) : stages.length ? rows.map((row) => ({ row, score: null })) : [];
+    const hit = new Set(found.map((f) => f.item.row));
+    ranked = [...found.map((f) => ({ row: f.item.row, score: f.score ?? null })), ...(stages.length ? rows.filter((r) => !hit.has(r)).map((row) => ({ row, score: null })) : [])];
     const offset = cursor.o ?? 0;
     const page = ranked.slice(offset, offset + limit);
     if (offset + limit < ranked.length) nextCursor = encodeCursor({ o: offset + limit });
