@@ -54,4 +54,35 @@ describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e
     expect(await page.getByRole("alert").textContent()).toBe("This link has already been used. Ask for a new one if you still need it.");
     expect(b.problems).toEqual([]);
   });
+
+  it("resets the forgotten password through the mailed link, which then works no more", async () => {
+    const { page } = b;
+    await page.locator("header summary").click();
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL(/\/sign-in/);
+    await page.getByRole("link", { name: "Forgot your password?" }).click();
+    await page.getByLabel("E-mail", { exact: true }).fill(email);
+    await page.getByRole("button", { name: "Send the link" }).click();
+    await expect.poll(() => page.getByRole("status").first().textContent()).toContain("the link is on its way");
+
+    await page.goto(appUrl() + `/dev/mailbox?to=${encodeURIComponent(email)}`, { waitUntil: "networkidle" });
+    const mail = page.getByRole("article", { name: "Set a new Saddlebook password" });
+    await expect.poll(() => mail.count(), { timeout: 10_000 }).toBe(1);
+    const link = mail.getByRole("link", { name: /\/reset-password\?token=/ });
+    const href = (await link.getAttribute("href"))!;
+    await link.click();
+    await page.getByLabel("New password", { exact: true }).fill("eyring-polanyi-11");
+    await page.getByLabel("New password again").fill("eyring-polanyi-11");
+    await page.getByRole("button", { name: "Set password" }).click();
+    await page.waitForURL(/\/sign-in\?notice=password-reset$/);
+    await page.getByLabel("E-mail", { exact: true }).fill(email);
+    await page.getByLabel("Password", { exact: true }).fill("eyring-polanyi-11");
+    await page.getByRole("button", { name: "Sign in", exact: true }).click();
+    await page.waitForURL(appUrl() + "/");
+
+    await page.goto(href, { waitUntil: "networkidle" });
+    expect(await page.getByRole("alert").textContent()).toBe("This link has already been used. Ask for a new one if you still need it.");
+    expect(await page.getByLabel("New password", { exact: true }).count()).toBe(0);
+    expect(b.problems).toEqual([]);
+  });
 });
