@@ -227,7 +227,7 @@ export async function runLibraryBench(): Promise<BenchCase[]> {
     const pageMs = await timeIt(40, (i) => get(`/library?q=${encodeURIComponent(qs[i].q ?? "")}&T=310`));
     cases.push(caseOf("library page first render GET /library?q= (HTML)", pageMs, 300));
     const emptyPageMs = await timeIt(20, () => get(`/library`));
-    cases.push(caseOf("library page first render GET /library (HTML, 200 newest)", emptyPageMs, 300));
+    cases.push(caseOf("library page first render GET /library (HTML, 100 newest)", emptyPageMs, 300));
     const mechPageMs = await timeIt(20, () => get(`/mechanisms/${mech.id}`));
     cases.push(caseOf("500-step mechanism page GET /mechanisms/:id (HTML)", mechPageMs, 200));
   } finally {

@@ -48,7 +48,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
   let result: Awaited<ReturnType<typeof searchSteps>> = { items: [], nextCursor: null, candidates: 0 };
   try {
-    result = await searchSteps(getDb(), user, { ...query, limit: 200, cursor: p.get("cursor") });
+    result = await searchSteps(getDb(), user, { ...query, limit: 100, cursor: p.get("cursor") });
   } catch (e) {
     if (e instanceof InputError) problems.push(e.message);
     else throw e;
@@ -247,7 +247,7 @@ export default function Library({ loaderData }: Route.ComponentProps) {
       ))}
       <div className="panel overflow-x-auto p-0">
         <p className="px-4 pt-3 text-xs text-ink-600" aria-live="polite">
-          {searching ? "Searching…" : `${items.length} step(s)${nextCursor ? " (first 200 shown; narrow the search)" : ""}. k in mol/L units, Eyring with κ and the step's standard state; * = ΔG‡ held constant away from its reference T.`}
+          {searching ? "Searching…" : `${items.length} step(s)${nextCursor ? " (the best 100 shown; narrow the search for more)" : ""}. k in mol/L units, Eyring with κ and the step's standard state; * = ΔG‡ held constant away from its reference T.`}
         </p>
         <table className="mt-2 w-full text-sm">
           <thead>

@@ -34,6 +34,7 @@ import { getSpeciesMany, type SpeciesRow } from "./species.server";
 import { hydrateVersion, newerApprovedVersions, visibleVersionId, type StepRow } from "./steps.server";
 import { diffMechanisms, type MechanismDiff, type ResolvedEntry, type ResolvedMechanism, type ResolvedSpecies } from "./mechanism-diff";
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
+import { audit } from "./audit.server";
 
 /** Largest import file accepted: 2 MB (2 097 152 bytes). */
 export const IMPORT_LIMIT_BYTES = 2_097_152;
@@ -293,6 +294,13 @@ export async function createMechanism(
       illustrative: !!extra.illustrative,
     });
     await writeVersion(trx, id, 1, actor, body.message || "Created.", body.name, snap);
+    await audit(trx, {
+      userId: actor.id,
+      action: extra.forkedFrom ? "mechanism.fork" : "mechanism.create",
+      objectType: "mechanism",
+      objectId: id,
+      detail: extra.forkedFrom ? { parentId: extra.forkedFrom.id, parentVersion: extra.forkedFrom.version } : { steps: snap.steps.length },
+    });
     return { id, version: 1 };
   };
   return db.isTransaction ? run(db) : db.transaction(run);
@@ -339,6 +347,7 @@ export async function updateMechanism(db: Knex, actor: Actor, id: number, input:
         updated_at: trx.fn.now(3),
       });
     await writeVersion(trx, id, number, actor, body.message, body.name, snap);
+    await audit(trx, { userId: actor.id, action: "mechanism.update", objectType: "mechanism", objectId: id, detail: { version: number } });
     return { version: number };
   });
 }
@@ -350,6 +359,7 @@ export async function deleteMechanism(db: Knex, actor: Actor, id: number): Promi
     assertCan(actor, { do: "mechanism.delete", object: owned(m) }, "Only the owner can delete this mechanism.");
     await trx("mechanisms").where({ forked_from_mechanism_id: id }).update({ forked_from_mechanism_id: null });
     await trx("mechanisms").where({ id }).delete();
+    await audit(trx, { userId: actor.id, action: "mechanism.delete", objectType: "mechanism", objectId: id, detail: { name: m.name } });
   });
 }
 

@@ -29,6 +29,7 @@ import { ENERGY_FACTORS } from "../../solver/units";
 import type { StepKinetics } from "../../solver/types";
 import { getSpeciesMany, ftWords, type SpeciesRow } from "./species.server";
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
+import { audit } from "./audit.server";
 
 /** Reference temperature of the stored derived values, K. */
 export const T_REF = 298.15;
@@ -262,6 +263,7 @@ export async function createStep(db: Knex, actor: Actor, input: unknown): Promis
     const built = await buildVersion(trx, data, null);
     const [stepId] = await trx("steps").insert({ owner_id: actor.id, status: "draft" });
     const versionId = await insertVersion(trx, stepId, 1, "draft", actor.id, data.message || "Created.", built);
+    await audit(trx, { userId: actor.id, action: "step.create", objectType: "step", objectId: stepId, detail: { version: 1 } });
     return { stepId, versionId, version: 1 };
   });
 }
@@ -297,6 +299,7 @@ export async function editStep(db: Knex, actor: Actor, stepId: number, input: un
     const status: StepStatus = curator ? s.status : "draft";
     const number = s.current_version_number + 1;
     const versionId = await insertVersion(trx, stepId, number, status, actor.id, data.message || "Edited.", built);
+    await audit(trx, { userId: actor.id, action: "step.edit", objectType: "step", objectId: stepId, detail: { version: number, status } });
     return { versionId, version: number };
   });
 }
@@ -315,6 +318,7 @@ export async function proposeStep(db: Knex, actor: Actor, stepId: number, commen
     const number = s.current_version_number + 1;
     const vid = await insertVersion(trx, stepId, number, "proposed", actor.id, comment?.trim() || "Proposed for the library.", { copyFrom: cur });
     await trx("step_reviews").insert({ step_id: stepId, step_version_id: vid, actor_id: actor.id, action: "propose", comment: comment?.trim() || null });
+    await audit(trx, { userId: actor.id, action: "step.propose", objectType: "step", objectId: stepId, detail: { version: number } });
     return { version: number };
   });
 }
@@ -349,6 +353,7 @@ export async function reviewStep(db: Knex, actor: Actor, stepId: number, input: 
       comment: r.comment || null,
       replacement_step_id: r.replacementStepId ?? null,
     });
+    await audit(trx, { userId: actor.id, action: `step.${r.action}`, objectType: "step", objectId: stepId, detail: { version: number, ...(r.replacementStepId ? { replacementStepId: r.replacementStepId } : {}) } });
     return { version: number, status };
   });
 }
