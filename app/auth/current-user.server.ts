@@ -19,9 +19,11 @@ export interface SessionUser extends Actor {
   adminGroupIds: number[];
 }
 
-export async function loadSessionUser(userId: number): Promise<SessionUser | null> {
+export async function loadSessionUser(userId: number, epoch?: number): Promise<SessionUser | null> {
   const u = await loadUserWithGroups(getDb(), userId);
   if (!u) return null;
+  // A password change or reset since this session signed in ends it.
+  if (epoch !== undefined && u.sessionEpoch !== epoch) return null;
   return { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds };
 }
 
@@ -30,7 +32,7 @@ export async function getOptionalUser(request: Request): Promise<SessionUser | n
   const session = await getSession(request);
   const id = sessionUserId(session);
   if (id == null) return null;
-  return loadSessionUser(id);
+  return loadSessionUser(id, session.get("epoch") ?? 0);
 }
 
 /** The signed-in user, or a redirect to the sign-in page that comes back here. */

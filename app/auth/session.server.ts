@@ -11,6 +11,8 @@ export interface SessionData {
   signedInAt: number;
   /** "password" or "oidc": how this session was signed in. */
   method: string;
+  /** The user's session epoch at sign-in (see db/migrations/0101_session_epoch.ts). */
+  epoch: number;
   /** Where to return after single sign-on (set when the provider redirect starts). */
   oidcNext: string;
 }

@@ -6,6 +6,7 @@ import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { hashPassword, passwordSchema, verifyPassword } from "~/auth/password.server";
 import { clientAddress } from "~/auth/client-address.server";
+import { renewSession } from "~/auth/sign-in.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { Field, Notice } from "~/auth/ui/AuthCard";
 import { getDb } from "../../db/client.server";
@@ -57,7 +58,11 @@ export async function action({ request }: Route.ActionArgs) {
     }
     await setPasswordHash(db, user.id, await hashPassword(parsed.data.password));
     await audit(db, { userId: user.id, action: "password.change", objectType: "user", objectId: user.id, ip: clientAddress(request) });
-    return { intent, fields: {}, ok: "Your password is changed." };
+    // Other sessions end with the change; this one carries on.
+    return data(
+      { intent, fields: {}, ok: "Your password is changed. Other browsers signed in to your account are signed out." },
+      { headers: { "Set-Cookie": await renewSession(request, user.id) } },
+    );
   }
   return data({ intent, fields: {}, ok: null }, { status: 400 });
 }

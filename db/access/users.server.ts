@@ -24,6 +24,8 @@ export interface UserWithGroups {
   groupIds: number[];
   adminGroupIds: number[];
   emailVerified: boolean;
+  /** Sessions signed in under an older epoch are no longer valid. */
+  sessionEpoch: number;
 }
 
 export function normalizeEmail(email: string): string {
@@ -86,6 +88,7 @@ export async function loadUserWithGroups(db: Knex, id: number): Promise<UserWith
     groupIds: ms.map((m: { group_id: number }) => Number(m.group_id)),
     adminGroupIds: ms.filter((m: { group_role: string }) => m.group_role === "admin").map((m: { group_id: number }) => Number(m.group_id)),
     emailVerified: !!r.email_verified_at,
+    sessionEpoch: Number(r.session_epoch ?? 0),
   };
 }
 
@@ -97,8 +100,16 @@ export async function setName(db: Knex, id: number, name: string): Promise<void>
   await db("users").where({ id }).update({ name: name.trim(), updated_at: db.fn.now(3) });
 }
 
+/** Sets the password and ends every existing session of the user (raises the epoch). */
 export async function setPasswordHash(db: Knex, id: number, hash: string): Promise<void> {
-  await db("users").where({ id }).update({ password_hash: hash, updated_at: db.fn.now(3) });
+  await db("users")
+    .where({ id })
+    .update({ password_hash: hash, session_epoch: db.raw("session_epoch + 1"), updated_at: db.fn.now(3) });
+}
+
+export async function sessionEpoch(db: Knex, id: number): Promise<number> {
+  const r = await db("users").where({ id }).first("session_epoch");
+  return Number(r?.session_epoch ?? 0);
 }
 
 export async function markEmailVerified(db: Knex, id: number): Promise<void> {

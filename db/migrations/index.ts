@@ -6,6 +6,7 @@
 import type { Knex } from "knex";
 import * as m0001 from "./0001_identity";
 import * as m0100 from "./0100_auth_tokens";
+import * as m0101 from "./0101_session_epoch";
 import * as m0200 from "./0200_library";
 import * as m0210 from "./0210_mechanisms";
 import * as m0300 from "./0300_workbench";
@@ -19,6 +20,7 @@ interface Migration {
 const list: Array<[string, Migration]> = [
   ["0001_identity", m0001],
   ["0100_auth_tokens", m0100],
+  ["0101_session_epoch", m0101],
   ["0200_library", m0200],
   ["0210_mechanisms", m0210],
   ["0300_workbench", m0300],

@@ -158,7 +158,8 @@ describe("password reset", () => {
     expect((await t.db("users").where({ email }).first()).password_hash).toBe(hashBefore);
   });
 
-  it("a fresh link sets the new password once; reuse is refused", async () => {
+  it("a fresh link sets the new password once, signing out other sessions; reuse is refused", async () => {
+    const earlier = await signedIn(email);
     const v = await visitor();
     await outcome(() => route.forgot.action(args(post(v, "/forgot-password", { email }))));
     const mail = lastMailTo(email);
@@ -166,12 +167,40 @@ describe("password reset", () => {
     const token = new URL("http://x" + linkIn(mail.text, "/reset-password")).searchParams.get("token")!;
     const ok = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token, password: "new-password-123", confirm: "new-password-123" }))));
     expect(ok.status).toBe(302);
+    const old = await outcome(() => route.me.loader(args(getRequest("/api/v1/me", { cookie: earlier.cookie }))));
+    expect(old.status).toBe(401);
     await signedIn(email, "new-password-123");
     const again = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token, password: "another-pass-456", confirm: "another-pass-456" }))));
     expect(again.status).toBe(410);
     expect(again.body.problem).toMatch(/already been used/);
     await signedIn(email, "new-password-123");
     expect((await t.db("audit_log").where({ action: "password.reset" })).length).toBe(1);
+  });
+});
+
+describe("changing the password in settings", () => {
+  it("needs the current password, keeps this session and ends the others", async () => {
+    const settings = await import("../../app/routes/settings");
+    const here = await signedIn("admin@saddlebook.test");
+    const elsewhere = await signedIn("admin@saddlebook.test");
+    const wrong = await outcome(() =>
+      settings.action(args(post(here, "/settings", { intent: "password", current: "guess-guess", password: "kinetic-isotope-2", confirm: "kinetic-isotope-2" }))),
+    );
+    expect(wrong.status).toBe(400);
+    expect(wrong.body.fields.current).toBe("This is not your current password.");
+    const ok = await outcome(() =>
+      settings.action(args(post(here, "/settings", { intent: "password", current: DEMO_PASSWORD, password: "kinetic-isotope-2", confirm: "kinetic-isotope-2" }))),
+    );
+    expect(ok.body.ok).toMatch(/^Your password is changed\./);
+    const renewed = cookieFrom(ok);
+    const meHere = await outcome(() => route.me.loader(args(getRequest("/api/v1/me", { cookie: renewed }))));
+    expect(meHere.status).toBe(200);
+    const meElsewhere = await outcome(() => route.me.loader(args(getRequest("/api/v1/me", { cookie: elsewhere.cookie }))));
+    expect(meElsewhere.status).toBe(401);
+    // Back to the demo password for the tests below.
+    const back = await visitor(renewed);
+    await outcome(() => settings.action(args(post(back, "/settings", { intent: "password", current: "kinetic-isotope-2", password: DEMO_PASSWORD, confirm: DEMO_PASSWORD }))));
+    await signedIn("admin@saddlebook.test");
   });
 });
 
