@@ -26,8 +26,8 @@ export async function action({ request }: Route.ActionArgs) {
   const user = await findUserByEmail(db, parsed.data);
   if (user && !user.disabled) {
     try {
-      await sendResetLink(db, request, user);
-      await audit(db, { userId: user.id, action: "password.reset-requested", objectType: "user", objectId: user.id, ip: clientAddress(request) });
+      const sent = await sendResetLink(db, request, user);
+      await audit(db, { userId: user.id, action: "password.reset-requested", objectType: "user", objectId: user.id, detail: { sent }, ip: clientAddress(request) });
     } catch (e) {
       if (e instanceof MailProblem) return data({ sent: false, email, error: e.message }, { status: 503 });
       throw e;

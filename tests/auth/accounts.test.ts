@@ -178,6 +178,19 @@ describe("password reset", () => {
   });
 });
 
+describe("mail flooding", () => {
+  it("sends at most 3 reset links per account and hour, answering the same each time", async () => {
+    const v = await visitor();
+    const email = "viewer@saddlebook.test";
+    const before = memoryOutbox.filter((m) => m.to === email).length;
+    for (let i = 0; i < 5; i++) {
+      const r = await outcome(() => route.forgot.action(args(post(v, "/forgot-password", { email }))));
+      expect(r.body.sent).toBe(true);
+    }
+    expect(memoryOutbox.filter((m) => m.to === email).length - before).toBe(3);
+  });
+});
+
 describe("changing the password in settings", () => {
   it("needs the current password, keeps this session and ends the others", async () => {
     const settings = await import("../../app/routes/settings");
