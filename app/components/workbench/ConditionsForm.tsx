@@ -118,7 +118,20 @@ export function draftKey(path: string[]): string {
   return p[0] ?? "form";
 }
 
-export function ConditionsForm({ draft, onChange, errors, presets }: { draft: ConditionsDraft; onChange: (d: ConditionsDraft) => void; errors: Record<string, string>; presets?: { name: string; draft: ConditionsDraft }[] }) {
+export function ConditionsForm({
+  draft,
+  onChange,
+  errors,
+  presets,
+  labels,
+}: {
+  draft: ConditionsDraft;
+  onChange: (d: ConditionsDraft) => void;
+  errors: Record<string, string>;
+  presets?: { name: string; draft: ConditionsDraft }[];
+  /** species id → display label */
+  labels?: Record<string, string>;
+}) {
   const set = <K extends keyof ConditionsDraft>(k: K, v: ConditionsDraft[K]) => onChange({ ...draft, [k]: v });
   const err = (k: string) => (errors[k] ? <p className="mt-0.5 text-xs text-brick-700" role="alert">{errors[k]}</p> : null);
   const cls = (k: string) => `field num ${errors[k] ? "field-error" : ""}`;
@@ -203,7 +216,7 @@ export function ConditionsForm({ draft, onChange, errors, presets }: { draft: Co
           {Object.entries(draft.initial).map(([id, q]) => (
             <div key={id} className="grid grid-cols-[minmax(0,1fr)_7rem_6rem] items-center gap-2">
               <span className="truncate text-sm" title={id}>
-                {id}
+                {labels?.[id] && labels[id] !== id ? `${labels[id]} (${id})` : id}
               </span>
               <input
                 aria-label={`Initial concentration of ${id}`}

@@ -1,0 +1,81 @@
+/**
+ * Per-step numbers for the workbench at a chosen temperature (pure; runs in the browser):
+ * k_fwd and k_rev with units, ΔG‡ in the 1 mol/L standard state, ΔG°rxn when the step carries
+ * reaction thermochemistry, the half-life ln 2/k of unimolecular steps, and the barrier form.
+ *
+ * Units: T in K; k in (mol/L)^(1−m)·s⁻¹; energies J/mol; half-lives s.
+ */
+import { stepToEngine, type MechanismDocument } from "../../../solver/exchange-format";
+import { convertBarrier, reverseRateConstant } from "../../../solver/index";
+
+export interface StepNumbers {
+  id: string;
+  label: string;
+  reversible: boolean;
+  molecularity: number;
+  form: string;
+  kf: number | null;
+  kfUnit: string;
+  kr: number | null;
+  krUnit: string | null;
+  /** J/mol, forward barrier at T in 1 mol/L (null when it cannot be computed) */
+  dG: number | null;
+  /** J/mol, reaction free energy at T (null without reaction thermochemistry) */
+  dGrxn: number | null;
+  /** s, ln 2 / k_fwd for a unimolecular step */
+  halfLife: number | null;
+  extrapolated: boolean;
+  problem: string | null;
+}
+
+export function stepNumbers(doc: MechanismDocument, T: number): StepNumbers[] {
+  return doc.steps.map((st, i) => {
+    const m = st.reactants.reduce((s, t) => s + t.coef, 0);
+    const base: StepNumbers = { id: st.id, label: st.label ?? st.id, reversible: st.reversible, molecularity: m, form: st.barrier.form, kf: null, kfUnit: "", kr: null, krUnit: null, dG: null, dGrxn: null, halfLife: null, extrapolated: false, problem: null };
+    const eng = stepToEngine(st, `steps[${i}]`);
+    if (!eng.ok) return { ...base, problem: eng.error.message };
+    const c = convertBarrier({ ...eng.value, targetStandardState: "1M" }, T, `steps[${i}]`);
+    if (!c.ok) return { ...base, problem: c.error.message };
+    const out: StepNumbers = { ...base, kf: c.value.k, kfUnit: c.value.units, dG: c.value.dG, extrapolated: !!c.value.extrapolated, halfLife: m === 1 && c.value.k > 0 ? Math.LN2 / c.value.k : null };
+    if (eng.value.thermo) {
+      const r = reverseRateConstant(eng.value, T, `steps[${i}]`);
+      if (r.ok) {
+        out.dGrxn = r.value.dGrxn;
+        if (st.reversible) {
+          out.kr = r.value.kRev;
+          out.krUnit = r.value.unitsRev;
+        }
+      } else out.problem = r.error.message;
+    }
+    return out;
+  });
+}
+
+export interface ProfilePoint {
+  kind: "minimum" | "ts";
+  label: string;
+  /** J/mol relative to the start */
+  G: number | null;
+}
+
+/**
+ * Free-energy profile along a pathway (steps in order, each taken forward): the start at 0,
+ * each transition state at G + ΔG‡(T), each intermediate at G + ΔG°rxn(T). Without ΔG°rxn the
+ * level after that step is unknown (null) and so are the levels after it.
+ */
+export function freeEnergyProfile(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): ProfilePoint[] {
+  const byId = new Map(numbers.map((n) => [n.id, n]));
+  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef > 1 ? `${t.coef} ${t.species}` : t.species)).join(" + ");
+  const pts: ProfilePoint[] = [];
+  let G: number | null = 0;
+  pathway.forEach((id, k) => {
+    const st = doc.steps.find((s) => s.id === id);
+    const n = byId.get(id);
+    if (!st || !n) return;
+    if (k === 0) pts.push({ kind: "minimum", label: side(st.reactants), G: 0 });
+    pts.push({ kind: "ts", label: `TS ${n.label}`, G: G === null || n.dG === null ? null : G + n.dG });
+    G = G === null || n.dGrxn === null ? null : G + n.dGrxn;
+    pts.push({ kind: "minimum", label: side(st.products), G });
+  });
+  return pts;
+}

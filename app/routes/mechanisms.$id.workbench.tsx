@@ -1,0 +1,357 @@
+/**
+ * /mechanisms/:id/workbench — the mechanism as a graph, the rate table and the free-energy
+ * profile at a chosen temperature (K or °C), and runs: conditions with presets saved on the
+ * mechanism, run in the worker pool with live progress and cancel, results one click away.
+ * ?version=N works on an earlier version.
+ */
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { Link, useFetcher, useRevalidator, useRouteLoaderData } from "react-router";
+import type { Route } from "./+types/mechanisms.$id.workbench";
+import { requireUser } from "~/auth/current-user.server";
+import { assertCsrf } from "~/auth/csrf.server";
+import { Forbidden, can } from "~/auth/policy.server";
+import { MechanismGraph, type Positions } from "~/components/workbench/MechanismGraph";
+import { RateTable } from "~/components/workbench/RateTable";
+import { EnergyProfile } from "~/components/workbench/EnergyProfile";
+import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
+import { CautionNote } from "~/components/workbench/CautionNote";
+import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rates";
+import { duration, num } from "~/components/workbench/format";
+import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
+import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
+import { loadMechanismDocument } from "~/compute/mechanism-source.server";
+import { RunCreateSchema, cancelRun, readableRun, startRun } from "~/compute/run-api.server";
+import { PositionsSchema, PresetSchema, layoutPositions, presetsOf, saveLayout, savePreset } from "~/compute/workbench-state.server";
+import { getDb } from "../../db/client.server";
+import { getMechanismRow, owned } from "../../db/access/mechanisms.server";
+import { listRuns } from "../../db/access/runs.server";
+import { NotFoundError } from "../../db/access/library-errors";
+
+export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
+  return [{ title: `Workbench · ${data?.name ?? "Mechanism"} · Saddlebook` }];
+}
+
+async function mechanismRow(user: Parameters<typeof getMechanismRow>[1], id: number) {
+  try {
+    return await getMechanismRow(getDb(), user, id);
+  } catch (e) {
+    if (e instanceof NotFoundError) throw new Response("There is no mechanism with this number that you can see.", { status: 404 });
+    throw e;
+  }
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const id = Number(params.id);
+  if (!Number.isInteger(id) || id <= 0) throw new Response("Not found", { status: 404 });
+  const row = await mechanismRow(user, id);
+  const v = Number(new URL(request.url).searchParams.get("version") ?? "") || undefined;
+  const loaded = await loadMechanismDocument(getDb(), user, id, v);
+  if (!loaded.ok) throw new Response(loaded.message, { status: loaded.status });
+  const runs = await listRuns(getDb(), user, { mechanismId: id, limit: 20 });
+  return {
+    id,
+    name: row.name,
+    version: loaded.version,
+    latest: row.current_version,
+    doc: loaded.document,
+    positions: layoutPositions(row.layout),
+    presets: presetsOf(row.condition_presets),
+    canWrite: can(user, { do: "mechanism.write", object: owned(row) }),
+    canRun: can(user, { do: "run.create", object: owned(row) }),
+    runs: runs.map((r) => ({ id: r.id, name: r.name, status: r.status, version: r.mechanismVersion, createdAt: r.createdAt.toISOString() })),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = await request.formData();
+  await assertCsrf(request, form);
+  const db = getDb();
+  const id = Number(params.id);
+  const intent = String(form.get("intent"));
+  try {
+    if (intent === "layout") {
+      const p = PositionsSchema.safeParse(JSON.parse(String(form.get("positions") ?? "{}")));
+      if (!p.success) return { intent, error: "The layout could not be read." };
+      await saveLayout(db, user, id, p.data);
+      return { intent, ok: true };
+    }
+    if (intent === "preset") {
+      const p = PresetSchema.safeParse({ name: form.get("name"), draft: JSON.parse(String(form.get("draft") ?? "{}")) });
+      if (!p.success) return { intent, error: p.error.issues[0].message };
+      await savePreset(db, user, id, p.data);
+      return { intent, ok: true };
+    }
+    if (intent === "run") {
+      const body = RunCreateSchema.safeParse({ ...JSON.parse(String(form.get("request") ?? "{}")), mechanismId: id, mechanismVersion: Number(form.get("version")) || undefined, name: String(form.get("name") ?? "") || undefined });
+      if (!body.success) return { intent, error: body.error.issues[0].message };
+      const started = await startRun(db, user, body.data);
+      if (!started.ok) return { intent, error: ((await started.response.json()) as { error: { message: string } }).error.message };
+      return { intent, runId: started.id };
+    }
+    if (intent === "cancel") {
+      const r = await readableRun(db, user, String(form.get("runId")));
+      if (!r.ok) return { intent, error: "No such run." };
+      const c = await cancelRun(db, user, r.run);
+      return c.ok ? { intent, ok: true } : { intent, error: ((await c.response.json()) as { error: { message: string } }).error.message };
+    }
+  } catch (e) {
+    if (e instanceof Response) throw e;
+    if (e instanceof Forbidden) return { intent, error: e.message };
+    throw e;
+  }
+  return { intent, error: "Unknown request." };
+}
+
+type RunState = { id: number; status: string; progress: number; tEnd: number; reason: string | null; analysis?: { species: Record<string, { t50?: number | null; initial: number }> } };
+
+export default function Workbench({ loaderData }: Route.ComponentProps) {
+  const L = loaderData;
+  const [Tvalue, setTvalue] = useState("25");
+  const [Tunit, setTunit] = useState<"K" | "°C">("°C");
+  const T = (() => {
+    const v = Number(Tvalue);
+    if (!Number.isFinite(v)) return null;
+    const K = Tunit === "K" ? v : v + 273.15;
+    return K > 0 ? K : null;
+  })();
+  const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
+  const [selected, setSelected] = useState<string | null>(null);
+  const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
+  const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
+  const profileRef = useRef<SVGSVGElement>(null);
+  const layoutFetcher = useFetcher();
+  const presetFetcher = useFetcher();
+  const runFetcher = useFetcher<{ intent: string; runId?: number; error?: string }>();
+  const cancelFetcher = useFetcher();
+  const revalidator = useRevalidator();
+  const saved = useMemo(() => L.positions as Positions, [L.positions]);
+  const [draft, setDraft] = useState<ConditionsDraft>(() => defaultDraft(L.doc.species.map((s) => s.id)));
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [presetName, setPresetName] = useState("");
+  const [run, setRun] = useState<RunState | null>(null);
+  const csrfToken = (useRouteLoaderData("root") as { csrf?: string } | undefined)?.csrf ?? "";
+
+  const savePositions = useCallback(
+    (p: Positions) => {
+      if (!L.canWrite) return;
+      layoutFetcher.submit({ intent: "layout", positions: JSON.stringify(p), csrf: csrfToken }, { method: "post" });
+    },
+    [L.canWrite, layoutFetcher, csrfToken],
+  );
+
+  // Follow the started run through the API until it ends.
+  const runId = runFetcher.data?.runId;
+  useEffect(() => {
+    if (!runId) return;
+    let stop = false;
+    const poll = async () => {
+      const res = await fetch(`/api/v1/runs/${runId}`, { headers: { Accept: "application/json" } });
+      if (!res.ok || stop) return;
+      const r = ((await res.json()) as { run: { id: number; status: string; progress: { time: { value: number }; endTime: { value: number } }; reason: string | null; analysis?: RunState["analysis"] } }).run;
+      setRun({ id: r.id, status: r.status, progress: r.progress.time.value, tEnd: r.progress.endTime.value, reason: r.reason, analysis: r.analysis });
+      if (["queued", "running"].includes(r.status)) setTimeout(() => void poll(), 400);
+      else void revalidator.revalidate();
+    };
+    void poll();
+    return () => {
+      stop = true;
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [runId]);
+
+  const built = buildRequest(draft);
+  const heating = draft.mode !== "isothermal";
+  const engineCond = built.ok ? toEngineConditions(built.conditions, L.doc.species.map((s) => s.id)) : null;
+  const concentrated = !!(engineCond?.ok && engineCond.value.maxInitial >= HIGH_CONCENTRATION_MOL_L);
+
+  function startRunClick() {
+    if (!built.ok) return setErrors(built.errors);
+    setErrors({});
+    setRun(null);
+    runFetcher.submit({ intent: "run", version: String(L.version), request: JSON.stringify({ conditions: built.conditions, solver: built.solver }), csrf: csrfToken }, { method: "post" });
+  }
+
+  const active = run && (run.status === "queued" || run.status === "running");
+  return (
+    <div className="space-y-4">
+      <header className="flex flex-wrap items-center gap-3">
+        <h1 className="text-2xl font-semibold tracking-tight">
+          {L.name} <span className="text-base font-normal text-ink-500">version {L.version}{L.version !== L.latest ? ` (latest ${L.latest})` : ""}</span>
+        </h1>
+        <Link to={`/mechanisms/${L.id}`} className="btn-quiet ml-auto">
+          Mechanism page
+        </Link>
+      </header>
+
+      <section className="panel flex flex-wrap items-end gap-3">
+        <label className="block">
+          <span className="label">Temperature</span>
+          <input aria-label="Workbench temperature" className={`field num w-28 ${T ? "" : "field-error"}`} value={Tvalue} onChange={(e) => setTvalue(e.target.value)} inputMode="decimal" />
+        </label>
+        <label className="block">
+          <span className="label">unit</span>
+          <select aria-label="Workbench temperature unit" className="field" value={Tunit} onChange={(e) => setTunit(e.target.value as "K" | "°C")}>
+            <option>K</option>
+            <option>°C</option>
+          </select>
+        </label>
+        <input type="range" min={200} max={500} step={1} value={T ?? 298} aria-label="Temperature slider (K)" onChange={(e) => (setTunit("K"), setTvalue(e.target.value))} className="w-56" />
+        <span className="num text-sm text-ink-600">{T ? `${num(T, 5)} K = ${num(T - 273.15, 5)} °C` : "Give a temperature above 0 K."}</span>
+      </section>
+
+      <section className="grid gap-4 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+        <div className="panel">
+          <h2 className="mb-2 font-semibold">Graph</h2>
+          <MechanismGraph doc={L.doc} numbers={numbers} saved={saved} selected={selected} onSelect={setSelected} onPositions={L.canWrite ? savePositions : undefined} />
+          <p className="mt-1 text-xs text-ink-500">
+            Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
+          </p>
+          {selected && <StepPanel id={selected} doc={L.doc} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
+        </div>
+        <div className="panel space-y-3">
+          <h2 className="font-semibold">Run</h2>
+          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={Object.fromEntries(L.doc.species.map((s) => [s.id, s.label ?? s.id]))} presets={L.presets.map((p) => ({ name: p.name, draft: { ...defaultDraft(L.doc.species.map((s) => s.id)), ...(p.draft as Partial<ConditionsDraft>) } }))} />
+          <CautionNote heating={heating} concentrated={concentrated} />
+          <div className="flex flex-wrap gap-2">
+            <button type="button" className="btn-primary" onClick={startRunClick} disabled={!L.canRun || runFetcher.state !== "idle" || !!active}>
+              {runFetcher.state !== "idle" ? "Starting…" : "Run"}
+            </button>
+            {L.canWrite && (
+              <span className="inline-flex gap-1">
+                <input aria-label="Preset name" className="field w-40 py-1" placeholder="preset name" value={presetName} onChange={(e) => setPresetName(e.target.value)} />
+                <button
+                  type="button"
+                  className="btn-quiet"
+                  disabled={!presetName.trim()}
+                  onClick={() => presetFetcher.submit({ intent: "preset", name: presetName, draft: JSON.stringify(draft), csrf: csrfToken }, { method: "post" })}
+                >
+                  Save as preset
+                </button>
+              </span>
+            )}
+          </div>
+          {runFetcher.data?.error && <p role="alert" className="text-sm text-brick-700">{runFetcher.data.error}</p>}
+          {run && (
+            <div className="space-y-1 text-sm" data-testid="workbench-run">
+              <div className="flex items-center gap-2">
+                <span>
+                  Run #{run.id}: <strong data-testid="workbench-run-status">{run.status}</strong> — t = {num(run.progress)} s of {num(run.tEnd)} s
+                </span>
+                {active && (
+                  <button type="button" className="btn-quiet ml-auto py-0.5" onClick={() => cancelFetcher.submit({ intent: "cancel", runId: String(run.id), csrf: csrfToken }, { method: "post" })}>
+                    Cancel
+                  </button>
+                )}
+              </div>
+              <div className="h-2 rounded bg-ink-100" role="progressbar" aria-valuenow={Math.round((run.progress / run.tEnd) * 100)}>
+                <div className="h-2 rounded bg-copper-500" style={{ width: `${Math.min(100, (run.progress / run.tEnd) * 100)}%` }} />
+              </div>
+              {run.reason && <p className="text-brick-700">{run.reason}</p>}
+              {run.status === "done" && (
+                <p>
+                  {Object.entries(run.analysis?.species ?? {})
+                    .filter(([, s]) => s.initial > 0)
+                    .map(([id, s]) => `t½(${id}) ${duration(s.t50)}`)
+                    .join(", ")}{" "}
+                  <Link className="font-medium underline" to={`/runs/${run.id}`}>
+                    Open the results
+                  </Link>
+                </p>
+              )}
+            </div>
+          )}
+          {L.runs.length > 0 && (
+            <div className="text-xs text-ink-500">
+              Earlier runs:{" "}
+              {L.runs.map((r) => (
+                <Link key={r.id} to={`/runs/${r.id}`} className="mr-2 underline">
+                  #{r.id} ({r.status}, v{r.version})
+                </Link>
+              ))}
+            </div>
+          )}
+        </div>
+      </section>
+
+      <section className="panel">
+        <h2 className="mb-2 font-semibold">Rate constants at {T ? `${num(T, 5)} K` : "—"}</h2>
+        <RateTable numbers={numbers} onSelect={setSelected} />
+      </section>
+
+      <section className="panel space-y-2">
+        <h2 className="font-semibold">Free-energy profile</h2>
+        <p className="text-xs text-ink-500">Tick the steps of a pathway in order (each taken forward). Intermediates need the step's reaction free energy.</p>
+        <div className="flex flex-wrap gap-2 text-sm">
+          {L.doc.steps.slice(0, 200).map((s) => {
+            const at = pathway.indexOf(s.id);
+            return (
+              <label key={s.id} className="inline-flex items-center gap-1">
+                <input type="checkbox" checked={at >= 0} onChange={() => setPathway(at >= 0 ? pathway.filter((x) => x !== s.id) : [...pathway, s.id])} aria-label={`Pathway step ${s.id}`} />
+                {at >= 0 && <span className="num text-xs text-copper-700">{at + 1}.</span>}
+                {s.label ?? s.id}
+              </label>
+            );
+          })}
+        </div>
+        {T && pathway.length > 0 && <EnergyProfile ref={profileRef} points={profile} T={T} />}
+        <div className="flex gap-2">
+          <button type="button" className="btn-quiet" onClick={() => profileRef.current && downloadSvg(profileRef.current, "saddlebook-profile.svg")}>
+            SVG
+          </button>
+          <button type="button" className="btn-quiet" onClick={() => profileRef.current && void downloadSvgAsPng(profileRef.current, "saddlebook-profile.png")}>
+            PNG
+          </button>
+        </div>
+      </section>
+    </div>
+  );
+}
+
+function StepPanel({ id, doc, numbers, onClose, mechanismId }: { id: string; doc: Route.ComponentProps["loaderData"]["doc"]; numbers: ReturnType<typeof stepNumbers>; onClose: () => void; mechanismId: number }) {
+  const st = doc.steps.find((s) => s.id === id);
+  const n = numbers.find((x) => x.id === id);
+  if (!st || !n) return null;
+  const side = (t: { species: string; coef: number }[]) => t.map((x) => (x.coef > 1 ? `${x.coef} ${x.species}` : x.species)).join(" + ");
+  return (
+    <aside className="mt-3 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Step details" data-testid="step-panel">
+      <div className="flex items-center">
+        <h3 className="font-semibold">{st.label ?? st.id}</h3>
+        <button type="button" className="btn-quiet ml-auto py-0" onClick={onClose}>
+          Close
+        </button>
+      </div>
+      <p className="num mt-1">
+        {side(st.reactants)} {st.reversible ? "⇌" : "→"} {side(st.products)}
+      </p>
+      <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
+        <dt>barrier</dt>
+        <dd className="num">{JSON.stringify(st.barrier).replace(/[{}"]/g, "").replace(/,/g, ", ")}</dd>
+        <dt>k_fwd</dt>
+        <dd className="num">
+          {num(n.kf)} {n.kfUnit}
+        </dd>
+        {st.reversible && (
+          <>
+            <dt>k_rev</dt>
+            <dd className="num">{n.kr === null ? "needs ΔG°rxn" : `${num(n.kr)} ${n.krUnit}`}</dd>
+          </>
+        )}
+        {st.provenance && (
+          <>
+            <dt>source</dt>
+            <dd>
+              {st.provenance.source}
+              {st.provenance.method ? `, ${st.provenance.method}` : ""}
+              {st.provenance.citation ? `, ${st.provenance.citation}` : ""}
+            </dd>
+          </>
+        )}
+      </dl>
+      <Link to={`/mechanisms/${mechanismId}`} className="mt-2 inline-block underline">
+        Edit the step in the mechanism editor
+      </Link>
+    </aside>
+  );
+}
