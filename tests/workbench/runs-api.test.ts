@@ -137,6 +137,34 @@ describe("POST /api/v1/runs → poll → results", () => {
   });
 });
 
+describe("runs of stored mechanisms", () => {
+  it("runs a mechanism by id and version from its stored snapshot; another user's private mechanism is not found", async () => {
+    const { importMechanism } = await import("../../db/access/mechanisms.server");
+    const actor = { id: auth.userId, role: "author" as const, groupIds: [], adminGroupIds: [] };
+    const { id: mid, version } = await importMechanism(t.db, actor, firstOrder(85, "stored A to B"), { visibility: "private" });
+    const r = await start({
+      mechanismId: mid,
+      mechanismVersion: version,
+      conditions: { program: { kind: "ramp", from: { value: 20, unit: "°C" }, to: { value: 60, unit: "°C" }, rate: { value: 2, unit: "K/min" } }, initial: { A: { value: 3, unit: "mol/L" } }, endTime: { value: 1, unit: "h" } },
+    });
+    expect(r.status).toBe(202);
+    const run = await waitFor(r.json.run.id, ended);
+    expect(run.status).toBe("done");
+    expect(run.mechanism).toMatchObject({ id: mid, version });
+    // a heating program and 3 mol/L: the results page shows the process-safety note
+    expect(run.analysis.heating).toBe(true);
+    expect(run.analysis.maxInitial).toBe(3);
+    expect(run.conditions.program.kind).toBe("ramp");
+
+    const [other] = await t.db("users").insert({ email: "other@example.test", name: "Other", role: "author" });
+    const theirs = await importMechanism(t.db, { id: other, role: "author", groupIds: [], adminGroupIds: [] }, firstOrder(80, "private of another"), { visibility: "private" });
+    const refused = await start({ mechanismId: theirs.id, conditions: { temperature: { value: 300, unit: "K" }, initial: { A: { value: 1, unit: "mol/L" } }, endTime: { value: 1, unit: "s" } } });
+    expect(refused.status).toBe(404);
+    const noVersion = await start({ mechanismId: mid, mechanismVersion: 99, conditions: { temperature: { value: 300, unit: "K" }, initial: { A: { value: 1, unit: "mol/L" } }, endTime: { value: 1, unit: "s" } } });
+    expect(noVersion.status).toBe(422);
+  });
+});
+
 describe("cancel, budget, crash", () => {
   const slow = (wallTimeMs: number) => ({
     mechanism: robertson(),
