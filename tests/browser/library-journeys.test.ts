@@ -12,6 +12,9 @@ async function signIn(b: BrowserSession, email: string) {
   await b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
 }
 
+// Journeys take several page loads each; on a busy machine they need more than the default 30 s.
+const JOURNEY_MS = 120_000;
+
 describe.skipIf(!hasApp())("library journeys in the browser", () => {
   let b: BrowserSession | undefined;
   afterEach(async () => {
@@ -35,7 +38,7 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     expect(await page.getByText("Provenance").count()).toBeGreaterThan(0);
     expect(b.problems).toEqual([]);
     await b.screenshot("library-step");
-  });
+  }, JOURNEY_MS);
 
   it("builds a mechanism from two library steps and one new local step", async () => {
     b = await openBrowser();
@@ -70,7 +73,7 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe("Browser-built mechanism <b>escaped</b>");
     expect(b.problems).toEqual([]);
     await b.screenshot("library-mechanism-built");
-  });
+  }, JOURNEY_MS);
 
   it("forks a colleague's mechanism and sees the differences from the parent", async () => {
     b = await openBrowser();
@@ -96,5 +99,5 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     expect(await page.getByTestId("diff").textContent()).toContain("330 K");
     expect(b.problems).toEqual([]);
     await b.screenshot("library-fork-diff");
-  });
+  }, JOURNEY_MS);
 });
