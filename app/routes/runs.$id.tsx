@@ -172,7 +172,8 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
           {run.mechanismId && (
             <>
               {" "}
-              · <Link to={`/mechanisms/${run.mechanismId}`}>mechanism {run.mechanismId}</Link> version {run.mechanismVersion}
+              · <Link to={`/mechanisms/${run.mechanismId}`}>mechanism {run.mechanismId}</Link> version {run.mechanismVersion} (
+              <Link to={`/mechanisms/${run.mechanismId}/workbench?version=${run.mechanismVersion}`}>workbench</Link>)
             </>
           )}{" "}
           · by {run.owner} · started {run.createdAt.slice(0, 19).replace("T", " ")} UTC
