@@ -30,7 +30,10 @@ export function meta(): Route.MetaDescriptors {
 export async function loader({ request }: Route.LoaderArgs) {
   const me = await requireCan(request, { do: "user.manage" }, "Only admins manage users.");
   const db = getDb();
-  const events = await listAudit(db, { limit: 50 });
+  const events = await listAudit(db, {
+    limit: 50,
+    prefixes: ["sign-in.", "sign-out", "user.", "password.", "role.", "invitation.", "member.", "group.", "token."],
+  });
   return {
     me: me.id,
     users: await listUsers(db),

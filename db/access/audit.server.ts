@@ -44,13 +44,21 @@ function parseDetail(v: unknown): Record<string, unknown> | null {
 }
 
 /** Newest first; optionally only one action prefix (e.g. "sign-in") or one user. */
-export async function listAudit(db: Knex, opts: { action?: string; userId?: number; limit?: number } = {}): Promise<AuditRow[]> {
+export async function listAudit(
+  db: Knex,
+  opts: { action?: string; prefixes?: string[]; userId?: number; limit?: number } = {},
+): Promise<AuditRow[]> {
   const q = db("audit_log as a")
     .leftJoin("users as u", "u.id", "a.user_id")
     .select("a.id", "a.user_id", "u.email", "a.action", "a.object_type", "a.object_id", "a.detail", "a.ip", "a.created_at")
     .orderBy("a.id", "desc")
     .limit(opts.limit ?? 200);
   if (opts.action) q.where("a.action", "like", `${opts.action.replace(/[%_]/g, "")}%`);
+  if (opts.prefixes?.length) {
+    q.where((w) => {
+      for (const p of opts.prefixes!) w.orWhere("a.action", "like", `${p.replace(/[%_]/g, "")}%`);
+    });
+  }
   if (opts.userId != null) q.where("a.user_id", opts.userId);
   const rows = await q;
   return rows.map((r: Record<string, unknown>) => ({

@@ -106,3 +106,15 @@ describe("one-time links", () => {
     expect(await checkOneTimeToken(t.db, "verify-email", "nope")).toEqual({ ok: false, reason: "unknown" });
   });
 });
+
+describe("audit log listing", () => {
+  it("filters by action prefixes, newest first, with the actor's e-mail", async () => {
+    const { audit, listAudit } = await import("../../db/access/audit.server");
+    await audit(t.db, { userId: author, action: "sign-in.success", ip: "192.0.2.1", detail: { method: "password" } });
+    await audit(t.db, { userId: author, action: "mechanism.create", ip: "192.0.2.1" });
+    await audit(t.db, { userId: admin, action: "role.change", objectType: "user", objectId: author, ip: "192.0.2.2", detail: { role: { from: "viewer", to: "author" } } });
+    const rows = await listAudit(t.db, { prefixes: ["sign-in.", "role."] });
+    expect(rows.map((r) => r.action)).toEqual(["role.change", "sign-in.success"]);
+    expect(rows[0]).toMatchObject({ userEmail: "admin@saddlebook.test", objectId: String(author), ip: "192.0.2.2", detail: { role: { from: "viewer", to: "author" } } });
+  });
+});
