@@ -6,12 +6,16 @@
  * sparse for the networks) on the same problems and tolerances.
  *
  * References: Robertson and HIRES from the Bari IVP test set (Mazzia & Magherini), values as in
- * tests/solver/integrator-reference.test.ts; networks: our own RODAS4 at rtol 1e-12 (a
- * self-convergence reference; the scipy script reports its error against the same reference,
- * which cross-checks it).
+ * tests/solver/integrator-reference.test.ts; networks: our own RODAS4 at rtol 1e-11, atol 1e-20,
+ * computed once and cached in bench/results/ (a self-convergence reference; the scipy script
+ * reports its error against the same reference, which cross-checks it).
+ *
+ * Timing: wall-clock median after warm-up (steady state, as in the long-lived server or browser
+ * tab); the first (cold, JIT-compiling) run and the median CPU time are reported beside it.
  */
 import { execFileSync } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { createHash } from "node:crypto";
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -20,7 +24,7 @@ import type { OdeProblem } from "../solver/ode-problem.ts";
 import { integrateStiff } from "../solver/rosenbrock.ts";
 import { simulate } from "../solver/simulate.ts";
 import { benchRates } from "./rates.bench.ts";
-import { networkToJson, stiffNetwork } from "./stiff-network.ts";
+import { NETWORK_GENERATOR_VERSION, networkToJson, stiffNetwork } from "./stiff-network.ts";
 import type { BenchCase, BenchSuite } from "./types.ts";
 
 const RTOL = 1e-6;
@@ -102,17 +106,55 @@ function median(xs: number[]): number {
   return s[Math.floor(s.length / 2)];
 }
 
-/** Times `fn` (after `warm` warm-up calls) `runs` times; returns the median ms and the last value. */
-function timeIt<T>(fn: () => T, runs: number, warm = 2): { ms: number; value: T } {
+/**
+ * Times `fn`: one cold call (first use in this process: includes JIT compilation), then warm-up
+ * calls until at least `warmCalls` calls and `warmMs` ms have passed (steady state, as a long-lived
+ * server or browser tab runs it), then `runs` timed calls. Returns the median wall ms, the median
+ * CPU ms of this process (less sensitive to other load on the machine), the cold ms and the last value.
+ */
+function timeIt<T>(fn: () => T, runs: number, warmCalls = 20, warmMs = 300): { ms: number; cpuMs: number; coldMs: number; value: T } {
+  const c0 = performance.now();
   let value = fn();
-  for (let w = 1; w < warm; w++) value = fn();
+  const coldMs = performance.now() - c0;
+  let calls = 1;
+  while (calls < warmCalls || performance.now() - c0 < warmMs) {
+    value = fn();
+    calls++;
+    if (calls > 10_000) break;
+  }
   const ts: number[] = [];
+  const cs: number[] = [];
   for (let r = 0; r < runs; r++) {
+    const cu = process.cpuUsage();
     const t0 = performance.now();
     value = fn();
     ts.push(performance.now() - t0);
+    const d = process.cpuUsage(cu);
+    cs.push((d.user + d.system) / 1000);
   }
-  return { ms: median(ts), value };
+  return { ms: median(ts), cpuMs: median(cs), coldMs, value };
+}
+
+/**
+ * Reference solution of a generated network: computed once with our RODAS4 at rtol 1e-11,
+ * atol 1e-20 and cached in bench/results/ (not committed) under a key made of N, the seed, the
+ * generator version and a hash of the problem, so a changed generator never reuses a stale file.
+ * The scipy runs report their own error against the same reference (a cross-check).
+ */
+function networkReference(key: string, compute: () => number[] | null): { y: number[] | null; source: string } {
+  const dir = join(dirname(fileURLToPath(import.meta.url)), "results");
+  const file = join(dir, `network-reference-${key}.json`);
+  if (existsSync(file)) {
+    const saved = JSON.parse(readFileSync(file, "utf8")) as { y: number[]; method: string };
+    return { y: saved.y, source: `${saved.method} (cached ${file.split("/").slice(-2).join("/")})` };
+  }
+  console.error(`computing the reference solution ${key} (once; cached in bench/results/) …`);
+  const y = compute();
+  if (!y) return { y: null, source: "none: the reference run did not finish" };
+  mkdirSync(dir, { recursive: true });
+  const method = "RODAS4 rtol 1e-11 atol 1e-20";
+  writeFileSync(file, JSON.stringify({ key, method, y }));
+  return { y, source: method };
 }
 
 interface ScipyProblem {
@@ -164,18 +206,18 @@ async function run(): Promise<BenchCase[]> {
   // Robertson, atol 1e-12 (y₂ falls below it late; error counted on components above atol)
   {
     const atol = 1e-12;
-    const r = timeIt(() => integrateStiff(robertson(), 0, [1, 0, 0], 1e11, { rtol: RTOL, atol }), 9);
+    const r = timeIt(() => integrateStiff(robertson(), 0, [1, 0, 0], 1e11, { rtol: RTOL, atol }), 21);
     if (!r.value.ok) throw new Error(`Robertson failed: ${r.value.error.message}`);
-    cases.push({ name: "Robertson to t = 1e11", wallMsMedian: r.ms, runs: 9, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, ROBER_REF, atol), extra: { rtol: RTOL, atol } });
+    cases.push({ name: "Robertson to t = 1e11", wallMsMedian: r.ms, runs: 21, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, ROBER_REF, atol), extra: { rtol: RTOL, atol, cpuMsMedian: r.cpuMs, coldMs: r.coldMs } });
     scipyProblems.push({ name: "Robertson to t = 1e11", kind: "robertson", tEnd: 1e11, y0: [1, 0, 0], rtol: RTOL, atol, reference: ROBER_REF });
   }
   // HIRES, atol 1e-10
   {
     const atol = 1e-10;
     const y0 = [1, 0, 0, 0, 0, 0, 0, 0.0057];
-    const r = timeIt(() => integrateStiff(hires(), 0, y0, 321.8122, { rtol: RTOL, atol }), 9);
+    const r = timeIt(() => integrateStiff(hires(), 0, y0, 321.8122, { rtol: RTOL, atol }), 21);
     if (!r.value.ok) throw new Error(`HIRES failed: ${r.value.error.message}`);
-    cases.push({ name: "HIRES to t = 321.8122", wallMsMedian: r.ms, runs: 9, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, HIRES_REF, atol), extra: { rtol: RTOL, atol } });
+    cases.push({ name: "HIRES to t = 321.8122", wallMsMedian: r.ms, runs: 21, steps: r.value.value.stats.accepted, maxRelError: maxRelError(r.value.value.yFinal, HIRES_REF, atol), extra: { rtol: RTOL, atol, cpuMsMedian: r.cpuMs, coldMs: r.coldMs } });
     scipyProblems.push({ name: "HIRES to t = 321.8122", kind: "hires", tEnd: 321.8122, y0, rtol: RTOL, atol, reference: HIRES_REF });
   }
   // generated networks through the full simulate() path
@@ -206,10 +248,15 @@ async function run(): Promise<BenchCase[]> {
       console.error(`done: ${name} (not finished)`);
       continue;
     }
-    const ref = sim(1e-10, 1e-18, 10 * NETWORK_BUDGET_MS);
-    const yRef = ref.ok ? ref.value.conc.map((c) => c[c.length - 1]) : null;
-    const runs = first.value.stats.wallMs > 5000 ? 1 : N >= 1000 ? 3 : 5;
-    const r = runs === 1 ? { ms: first.value.stats.wallMs, value: first } : timeIt(() => sim(RTOL, atol, NETWORK_BUDGET_MS), runs, 0);
+    const json = networkToJson(net);
+    const key = `N${N}-seed${net.seed}-v${NETWORK_GENERATOR_VERSION}-${createHash("sha256").update(json).digest("hex").slice(0, 12)}`;
+    const ref = networkReference(key, () => {
+      const rr = sim(1e-11, 1e-20, 20 * NETWORK_BUDGET_MS);
+      return rr.ok ? rr.value.conc.map((c) => c[c.length - 1]) : null;
+    });
+    const yRef = ref.y;
+    const runs = first.value.stats.wallMs > 5000 ? 1 : N >= 1000 ? 5 : 9;
+    const r = runs === 1 ? { ms: first.value.stats.wallMs, cpuMs: NaN, coldMs: first.value.stats.wallMs, value: first } : timeIt(() => sim(RTOL, atol, NETWORK_BUDGET_MS), runs, 3, 1000);
     if (!r.value.ok) throw new Error(`network ${N} failed: ${r.value.error.message}`);
     const y = r.value.value.conc.map((c) => c[c.length - 1]);
     let m0 = 0, m1 = 0;
@@ -220,9 +267,18 @@ async function run(): Promise<BenchCase[]> {
       runs,
       steps: r.value.value.stats.accepted,
       maxRelError: yRef ? maxRelError(y, yRef, atol) : undefined,
-      extra: { rtol: RTOL, atol, massDrift: Math.abs(m1 - m0) / m0, rejected: r.value.value.stats.rejected, reference: ref.ok ? "RODAS4 rtol 1e-10" : `none: ${ref.error.message}` },
+      extra: {
+        rtol: RTOL,
+        atol,
+        cpuMsMedian: r.cpuMs,
+        firstRunMs: first.value.stats.wallMs,
+        massDrift: Math.abs(m1 - m0) / m0,
+        rejected: r.value.value.stats.rejected,
+        jacobianNonzeros: model.jacobianPattern.colIdx.length,
+        reference: ref.source,
+      },
     });
-    if (yRef) scipyProblems.push({ name, kind: "network", tEnd: net.tEnd, y0: Array.from(net.c0), rtol: RTOL, atol, reference: yRef, network: JSON.parse(networkToJson(net)) });
+    if (yRef) scipyProblems.push({ name, kind: "network", tEnd: net.tEnd, y0: Array.from(net.c0), rtol: RTOL, atol, reference: yRef, network: JSON.parse(json) });
     console.error(`done: ${name}`);
   }
   // rate constants

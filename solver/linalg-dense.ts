@@ -11,6 +11,8 @@ export interface DenseLU {
   readonly n: number;
   /** Factor the n×n row-major matrix `a` in place of the internal buffer. Returns false if singular or non-finite. */
   factor(a: Float64Array): boolean;
+  /** Factor shift·I + scale·A for the row-major n×n matrix `a` (e.g. W = I/(hγ) − J: shift 1/(hγ), scale −1). */
+  factorShifted(a: Float64Array, shift: number, scale: number): boolean;
   /** Solve A x = b in place (b is overwritten with x), using the last successful factorisation. */
   solve(b: Float64Array): void;
 }
@@ -19,9 +21,21 @@ export interface DenseLU {
 export function createDenseLU(n: number): DenseLU {
   const lu = new Float64Array(n * n);
   const piv = new Int32Array(n);
+  const invDiag = new Float64Array(n);
 
   function factor(a: Float64Array): boolean {
     lu.set(a.subarray(0, n * n));
+    return eliminate();
+  }
+
+  function factorShifted(a: Float64Array, shift: number, scale: number): boolean {
+    const nn = n * n;
+    for (let q = 0; q < nn; q++) lu[q] = scale * a[q];
+    for (let i = 0; i < n; i++) lu[i * n + i] += shift;
+    return eliminate();
+  }
+
+  function eliminate(): boolean {
     for (let k = 0; k < n; k++) {
       // pivot search in column k
       let p = k;
@@ -46,6 +60,7 @@ export function createDenseLU(n: number): DenseLU {
       }
       const rk = k * n;
       const inv = 1 / lu[rk + k];
+      invDiag[k] = inv;
       for (let i = k + 1; i < n; i++) {
         const ri = i * n;
         const l = lu[ri + k] * inv;
@@ -77,9 +92,9 @@ export function createDenseLU(n: number): DenseLU {
       const ri = i * n;
       let s = b[i];
       for (let j = i + 1; j < n; j++) s -= lu[ri + j] * b[j];
-      b[i] = s / lu[ri + i];
+      b[i] = s * invDiag[i];
     }
   }
 
-  return { n, factor, solve };
+  return { n, factor, factorShifted, solve };
 }

@@ -4,11 +4,15 @@
  *
  * Phases:
  *  1. Ordering, once: minimum-degree ordering on the symmetrised pattern A + Aᵀ
- *     (explicit elimination graph; Tinney–Walker scheme 2 / Rose 1972 — common practice).
+ *     (explicit elimination graph with degree buckets; Tinney–Walker scheme 2 / Rose 1972 —
+ *     common practice).
  *  2. Symbolic factorisation, once: elimination tree (Liu 1986) and row patterns of L
  *     by tree traversal (Davis, "Direct Methods for Sparse Linear Systems", ch. 4 —
  *     algorithm described there, implemented here from the description). Because the
  *     symmetrised pattern is used, the pattern of U is the transpose of that of L.
+ *     When the operation count is moderate, the elimination is also recorded as a flat
+ *     list of target positions ("static schedule"), so that every later numeric
+ *     factorisation is one tight loop with no scatter/gather bookkeeping.
  *  3. Numeric factorisation, every call: row-oriented (IKJ) Gaussian elimination with
  *     static diagonal pivots in the chosen order, reusing the pattern; no allocation.
  *     A pivot that is zero, tiny relative to its row or non-finite makes `factor` return
@@ -19,61 +23,114 @@ export interface SparseLU {
   readonly n: number;
   /** Number of stored entries of L+U (including the diagonal). */
   readonly nnzLU: number;
+  /** Multiply–add operations of one numeric factorisation. */
+  readonly flops: number;
   /** Factor the matrix whose CSR values (pattern given at creation) are `values`. */
   factor(values: Float64Array): boolean;
+  /** Factor shift·I + scale·A, A with the CSR values `values` (e.g. W = I/(hγ) − J: shift 1/(hγ), scale −1). */
+  factorShifted(values: Float64Array, shift: number, scale: number): boolean;
   /** Solve A x = b in place (b overwritten with x). */
   solve(b: Float64Array): void;
 }
 
-/** Minimum-degree ordering of a symmetric pattern given as adjacency lists (no self loops). */
-export function minimumDegreeOrder(n: number, adj: Set<number>[]): Int32Array {
-  const g = adj.map((s) => new Set(s));
+/**
+ * Minimum-degree ordering of a symmetric pattern given as adjacency lists (no self loops,
+ * no duplicates). Returns perm with perm[newIndex] = old index. Ties go to the vertex that
+ * entered its degree bucket last (deterministic).
+ */
+export function minimumDegreeOrder(n: number, adjIn: ArrayLike<number>[]): Int32Array {
+  const adj: number[][] = [];
+  for (let v = 0; v < n; v++) adj.push(Array.from(adjIn[v]));
   const eliminated = new Uint8Array(n);
   const order = new Int32Array(n);
+  // degree buckets as doubly linked lists
+  const head = new Int32Array(n + 1).fill(-1);
+  const next = new Int32Array(n).fill(-1);
+  const prev = new Int32Array(n).fill(-1);
+  const deg = new Int32Array(n);
+  const insert = (v: number, d: number) => {
+    deg[v] = d;
+    prev[v] = -1;
+    next[v] = head[d];
+    if (head[d] !== -1) prev[head[d]] = v;
+    head[d] = v;
+  };
+  const remove = (v: number) => {
+    if (prev[v] !== -1) next[prev[v]] = next[v];
+    else head[deg[v]] = next[v];
+    if (next[v] !== -1) prev[next[v]] = prev[v];
+  };
+  for (let v = 0; v < n; v++) insert(v, Math.min(adj[v].length, n));
+  const mark = new Int32Array(n).fill(-1);
+  let minDeg = 0;
   for (let k = 0; k < n; k++) {
-    let best = -1;
-    let bestDeg = Infinity;
-    for (let v = 0; v < n; v++) {
-      if (eliminated[v]) continue;
-      const d = g[v].size;
-      if (d < bestDeg) {
-        bestDeg = d;
-        best = v;
-        if (d === 0) break;
-      }
-    }
-    order[k] = best;
-    eliminated[best] = 1;
-    const nb = Array.from(g[best]);
-    for (const u of nb) g[u].delete(best);
-    // neighbours become a clique (fill)
+    while (head[minDeg] === -1) minDeg++;
+    const v = head[minDeg];
+    remove(v);
+    order[k] = v;
+    eliminated[v] = 1;
+    const nb = adj[v];
+    adj[v] = [];
+    // each neighbour u: adj[u] ← (adj[u] ∪ nb) \ {u, v}
     for (let a = 0; a < nb.length; a++) {
-      const ga = g[nb[a]];
-      for (let b = 0; b < nb.length; b++) if (a !== b) ga.add(nb[b]);
+      const u = nb[a];
+      const au = adj[u];
+      const stamp = k * 2 + 1; // unique per (k) pass; mark[x] === stamp means "already in adj[u]"
+      let w = 0;
+      for (let q = 0; q < au.length; q++) {
+        const x = au[q];
+        if (x === v || eliminated[x]) continue;
+        au[w++] = x;
+        mark[x] = stamp;
+      }
+      au.length = w;
+      mark[u] = stamp;
+      for (let b = 0; b < nb.length; b++) {
+        const x = nb[b];
+        if (mark[x] !== stamp) {
+          au.push(x);
+          mark[x] = stamp;
+        }
+      }
+      // reset marks for the next neighbour (stamp is reused within this pass)
+      for (let q = 0; q < au.length; q++) mark[au[q]] = -1;
+      mark[u] = -1;
+      remove(u);
+      insert(u, au.length);
+      if (au.length < minDeg) minDeg = au.length;
     }
-    g[best].clear();
   }
   return order;
 }
+
+/** Above this many multiply–adds, the factorisation uses scatter/gather instead of a static schedule (memory bound). */
+const SCHEDULE_MAX_OPS = 4_000_000;
 
 /**
  * Build a sparse LU workspace for the n×n CSR pattern (rowPtr, colIdx).
  * The diagonal need not be present in the pattern; it is added internally.
  */
 export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array): SparseLU {
-  // 1. symmetrised adjacency and ordering
-  const adj: Set<number>[] = [];
-  for (let i = 0; i < n; i++) adj.push(new Set());
+  // 1. symmetrised adjacency (deduplicated) and ordering
+  const adjL: number[][] = [];
+  for (let i = 0; i < n; i++) adjL.push([]);
   for (let i = 0; i < n; i++) {
     for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) {
       const j = colIdx[p];
       if (j !== i) {
-        adj[i].add(j);
-        adj[j].add(i);
+        adjL[i].push(j);
+        adjL[j].push(i);
       }
     }
   }
-  const perm = minimumDegreeOrder(n, adj); // perm[newIndex] = old index
+  const seen = new Int32Array(n).fill(-1);
+  for (let i = 0; i < n; i++) {
+    const a = adjL[i];
+    let w = 0;
+    for (let q = 0; q < a.length; q++) if (seen[a[q]] !== i) ((seen[a[q]] = i), (a[w++] = a[q]));
+    a.length = w;
+  }
+  const perm = minimumDegreeOrder(n, adjL); // perm[newIndex] = old index
   const iperm = new Int32Array(n);
   for (let k = 0; k < n; k++) iperm[perm[k]] = k;
 
@@ -82,7 +139,7 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
   for (let i = 0; i < n; i++) lowerRows.push([]);
   for (let oi = 0; oi < n; oi++) {
     const i = iperm[oi];
-    for (const oj of adj[oi]) {
+    for (const oj of adjL[oi]) {
       const j = iperm[oj];
       if (j < i) lowerRows[i].push(j);
     }
@@ -95,9 +152,9 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
     for (const k of lowerRows[i]) {
       let j = k;
       while (ancestor[j] !== -1 && ancestor[j] !== i) {
-        const next = ancestor[j];
+        const nx = ancestor[j];
         ancestor[j] = i;
-        j = next;
+        j = nx;
       }
       if (ancestor[j] === -1) {
         ancestor[j] = i;
@@ -148,27 +205,75 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
     for (let q = rowPtr[oi]; q < rowPtr[oi + 1]; q++) aMap[q] = where[iperm[colIdx[q]]];
     for (let p = luPtr[i]; p < luPtr[i + 1]; p++) where[luCol[p]] = -1;
   }
+  // operation count: each L entry (i, k) updates the U part of row k into row i
+  let flops = 0;
+  for (let i = 0; i < n; i++) for (let p = luPtr[i]; p < diag[i]; p++) flops += luPtr[luCol[p] + 1] - diag[luCol[p]] - 1;
+  // static schedule: for L entry p, targets sched[schedPtr[p] ...] in row order of U row k
+  const sched: Int32Array | null = flops <= SCHEDULE_MAX_OPS ? new Int32Array(flops) : null;
+  const schedPtr: Int32Array | null = sched ? new Int32Array(nnz + 1) : null;
+  if (sched && schedPtr) {
+    let m = 0;
+    for (let i = 0; i < n; i++) {
+      for (let p = luPtr[i]; p < luPtr[i + 1]; p++) where[luCol[p]] = p;
+      for (let p = luPtr[i]; p < luPtr[i + 1]; p++) {
+        schedPtr[p] = m;
+        if (p < diag[i]) {
+          const k = luCol[p];
+          for (let q = diag[k] + 1; q < luPtr[k + 1]; q++) sched[m++] = where[luCol[q]];
+        }
+      }
+      for (let p = luPtr[i]; p < luPtr[i + 1]; p++) where[luCol[p]] = -1;
+    }
+    schedPtr[nnz] = m;
+  }
 
   const val = new Float64Array(nnz);
-  const x = new Float64Array(n);
+  const invDiag = new Float64Array(n);
   const nnzA = rowPtr[n];
 
-  function factor(values: Float64Array): boolean {
-    val.fill(0);
-    for (let q = 0; q < nnzA; q++) val[aMap[q]] += values[q];
+  // Numeric elimination with the static schedule: the row-i update by L entry p = (i, k) is
+  // val[sched[m]] −= l_ik·u_kj over the U part of row k, m running from schedPtr[p].
+  function eliminateScheduled(sc: Int32Array, scPtr: Int32Array): boolean {
     for (let i = 0; i < n; i++) {
       const start = luPtr[i];
       const end = luPtr[i + 1];
+      const d = diag[i];
+      let rowMax = 0;
+      for (let p = start; p < end; p++) {
+        const a = Math.abs(val[p]);
+        if (a > rowMax) rowMax = a;
+      }
+      for (let p = start; p < d; p++) {
+        const k = luCol[p];
+        const lik = val[p] * invDiag[k];
+        val[p] = lik;
+        if (lik === 0) continue;
+        let m = scPtr[p];
+        const kEnd = luPtr[k + 1];
+        for (let q = diag[k] + 1; q < kEnd; q++) val[sc[m++]] -= lik * val[q];
+      }
+      const piv = val[d];
+      if (!Number.isFinite(piv) || piv === 0 || Math.abs(piv) <= 1e-14 * rowMax) return false;
+      invDiag[i] = 1 / piv;
+    }
+    return true;
+  }
+
+  // Numeric elimination by scatter/gather through `where` (large operation counts).
+  function eliminateScatter(): boolean {
+    for (let i = 0; i < n; i++) {
+      const start = luPtr[i];
+      const end = luPtr[i + 1];
+      const d = diag[i];
       let rowMax = 0;
       for (let p = start; p < end; p++) {
         where[luCol[p]] = p;
         const a = Math.abs(val[p]);
         if (a > rowMax) rowMax = a;
       }
-      const d = diag[i];
       for (let p = start; p < d; p++) {
         const k = luCol[p];
-        const lik = val[p] / val[diag[k]];
+        const lik = val[p] * invDiag[k];
         val[p] = lik;
         if (lik === 0) continue;
         const kEnd = luPtr[k + 1];
@@ -176,28 +281,46 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
       }
       for (let p = start; p < end; p++) where[luCol[p]] = -1;
       const piv = val[d];
-      if (!Number.isFinite(piv) || Math.abs(piv) <= 1e-14 * rowMax || piv === 0) return false;
+      if (!Number.isFinite(piv) || piv === 0 || Math.abs(piv) <= 1e-14 * rowMax) return false;
+      invDiag[i] = 1 / piv;
     }
     return true;
   }
+  const eliminate = sched !== null && schedPtr !== null ? eliminateScheduled.bind(null, sched, schedPtr) : eliminateScatter;
 
-  function solve(b: Float64Array): void {
-    for (let i = 0; i < n; i++) x[i] = b[perm[i]];
-    for (let i = 0; i < n; i++) {
-      let s = x[i];
-      const d = diag[i];
-      for (let p = luPtr[i]; p < d; p++) s -= val[p] * x[luCol[p]];
-      x[i] = s;
-    }
-    for (let i = n - 1; i >= 0; i--) {
-      let s = x[i];
-      const d = diag[i];
-      const end = luPtr[i + 1];
-      for (let p = d + 1; p < end; p++) s -= val[p] * x[luCol[p]];
-      x[i] = s / val[d];
-    }
-    for (let i = 0; i < n; i++) b[perm[i]] = x[i];
+  function factorShifted(values: Float64Array, shift: number, scale: number): boolean {
+    val.fill(0);
+    if (scale === 1) for (let q = 0; q < nnzA; q++) val[aMap[q]] += values[q];
+    else for (let q = 0; q < nnzA; q++) val[aMap[q]] += scale * values[q];
+    if (shift !== 0) for (let i = 0; i < n; i++) val[diag[i]] += shift;
+    return eliminate();
   }
 
-  return { n, nnzLU: nnz, factor, solve };
+  function factor(values: Float64Array): boolean {
+    return factorShifted(values, 0, 1);
+  }
+
+  // Column indices of L+U mapped back to original numbering, so the triangular solves work in
+  // place on b (row i of the permuted factors is original row perm[i]) with no gather/scatter.
+  const luColOrig = new Int32Array(nnz);
+  for (let p = 0; p < nnz; p++) luColOrig[p] = perm[luCol[p]];
+
+  function solve(b: Float64Array): void {
+    for (let i = 0; i < n; i++) {
+      const oi = perm[i];
+      let s = b[oi];
+      const d = diag[i];
+      for (let p = luPtr[i]; p < d; p++) s -= val[p] * b[luColOrig[p]];
+      b[oi] = s;
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      const oi = perm[i];
+      let s = b[oi];
+      const end = luPtr[i + 1];
+      for (let p = diag[i] + 1; p < end; p++) s -= val[p] * b[luColOrig[p]];
+      b[oi] = s * invDiag[i];
+    }
+  }
+
+  return { n, nnzLU: nnz, flops, factor, factorShifted, solve };
 }

@@ -127,17 +127,7 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
     net.push(nm);
   }
 
-  // ---- flattened step data
-  const flat = (sides: Side[]) => {
-    const ptr = new Int32Array(nR + 1);
-    for (let r = 0; r < nR; r++) ptr[r + 1] = ptr[r] + sides[r].sp.length;
-    const sp = new Int32Array(ptr[nR]);
-    const ord = new Int32Array(ptr[nR]);
-    for (let r = 0; r < nR; r++) sides[r].sp.forEach((s, k) => ((sp[ptr[r] + k] = s), (ord[ptr[r] + k] = sides[r].ord[k])));
-    return { ptr, sp, ord };
-  };
-  const F = flat(fwd);
-  const B = flat(rev);
+  // ---- net stoichiometry per step (flattened)
   const nPtr = new Int32Array(nR + 1);
   for (let r = 0; r < nR; r++) nPtr[r + 1] = nPtr[r] + net[r].size;
   const nSp = new Int32Array(nPtr[nR]);
@@ -155,31 +145,54 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
   const stVal = new Float64Array(stPtr[nS]);
   for (let i = 0; i < nS; i++) stRows[i].forEach(([r, v], k) => ((stCol[stPtr[i] + k] = r), (stVal[stPtr[i] + k] = v)));
 
-  const power = (c: number, o: number) => (o === 1 ? c : o === 2 ? c * c : o === 3 ? c * c * c : Math.pow(c, o));
+  // ---- evaluation tables, compiled once into flat typed arrays.
+  // Each rate factor is listed once per unit of its order (2A → [A, A]), so a rate is a plain
+  // product kf·c_a·c_b·… with at most three factors per side (molecularity ≤ 3 is enforced for
+  // every side that enters a rate law). Irreversible steps get an empty reverse list.
+  const expand = (sides: Side[], use: (r: number) => boolean) => {
+    const ptr = new Int32Array(nR + 1);
+    const list: number[] = [];
+    for (let r = 0; r < nR; r++) {
+      if (use(r)) sides[r].sp.forEach((sp, k) => {
+        for (let o = 0; o < sides[r].ord[k]; o++) list.push(sp);
+      });
+      ptr[r + 1] = list.length;
+    }
+    return { ptr, sp: Int32Array.from(list) };
+  };
+  const FE = expand(fwd, () => true);
+  const BE = expand(rev, (r) => reversible[r] === 1);
+  const fPtr = FE.ptr, fSp = FE.sp, bPtr = BE.ptr, bSp = BE.sp;
 
   function rates(c: Float64Array, kf: Float64Array, kr: Float64Array, v: Float64Array): void {
     for (let r = 0; r < nR; r++) {
       let a = kf[r];
-      for (let q = F.ptr[r]; q < F.ptr[r + 1]; q++) a *= power(c[F.sp[q]], F.ord[q]);
-      if (reversible[r]) {
+      for (let q = fPtr[r], e = fPtr[r + 1]; q < e; q++) a *= c[fSp[q]];
+      const b0 = bPtr[r], b1 = bPtr[r + 1];
+      if (b1 > b0) {
         let b = kr[r];
-        for (let q = B.ptr[r]; q < B.ptr[r + 1]; q++) b *= power(c[B.sp[q]], B.ord[q]);
+        for (let q = b0; q < b1; q++) b *= c[bSp[q]];
         a -= b;
       }
       v[r] = a;
     }
   }
-  const vbuf = new Float64Array(nR);
   function rhs(c: Float64Array, kf: Float64Array, kr: Float64Array, dcdt: Float64Array): void {
-    rates(c, kf, kr, vbuf);
     dcdt.fill(0);
     for (let r = 0; r < nR; r++) {
-      const v = vbuf[r];
-      for (let q = nPtr[r]; q < nPtr[r + 1]; q++) dcdt[nSp[q]] += nCoef[q] * v;
+      let a = kf[r];
+      for (let q = fPtr[r], e = fPtr[r + 1]; q < e; q++) a *= c[fSp[q]];
+      const b0 = bPtr[r], b1 = bPtr[r + 1];
+      if (b1 > b0) {
+        let b = kr[r];
+        for (let q = b0; q < b1; q++) b *= c[bSp[q]];
+        a -= b;
+      }
+      for (let q = nPtr[r], e = nPtr[r + 1]; q < e; q++) dcdt[nSp[q]] += nCoef[q] * a;
     }
   }
 
-  // ---- Jacobian: derivative slots per step (species the rate depends on)
+  // ---- Jacobian pattern: row i holds every species some step changing i depends on
   const slotSpecies: number[][] = [];
   for (let r = 0; r < nR; r++) {
     const set = new Set<number>(fwd[r].sp);
@@ -198,50 +211,42 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
     rowLists[i].forEach((s, k) => ((jCol[jPtr[i] + k] = s), m.set(s, jPtr[i] + k)));
     posMap.push(m);
   }
-  const slotPtr = new Int32Array(nR + 1);
-  for (let r = 0; r < nR; r++) slotPtr[r + 1] = slotPtr[r] + slotSpecies[r].length;
-  const slotSp = new Int32Array(slotPtr[nR]);
-  for (let r = 0; r < nR; r++) slotSpecies[r].forEach((s, k) => (slotSp[slotPtr[r] + k] = s));
-  // for each forward/reverse factor, which slot it belongs to
-  const fSlot = new Int32Array(F.sp.length);
-  const bSlot = new Int32Array(B.sp.length);
-  for (let r = 0; r < nR; r++) {
-    for (let q = F.ptr[r]; q < F.ptr[r + 1]; q++) fSlot[q] = slotPtr[r] + slotSpecies[r].indexOf(F.sp[q]);
-    for (let q = B.ptr[r]; q < B.ptr[r + 1]; q++) bSlot[q] = slotPtr[r] + slotSpecies[r].indexOf(B.sp[q]);
-  }
-  const contribPtr = new Int32Array(nR + 1);
-  const contribPosList: number[] = [];
-  for (let r = 0; r < nR; r++) {
-    for (const [i] of net[r]) for (const s of slotSpecies[r]) contribPosList.push(posMap[i].get(s)!);
-    contribPtr[r + 1] = contribPosList.length;
-  }
-  const contribPos = Int32Array.from(contribPosList);
-  const dv = new Float64Array(slotPtr[nR]);
+  // For every rate factor q (expanded lists), ∂v/∂c at that factor is ±k·Π(other factors), and it
+  // enters row i of the Jacobian with the net coefficient of i: targets tPos/tCoef per factor.
+  const targets = (E: { ptr: Int32Array; sp: Int32Array }) => {
+    const ptr = new Int32Array(E.sp.length + 1);
+    const pos: number[] = [];
+    const coef: number[] = [];
+    for (let r = 0; r < nR; r++) {
+      for (let q = E.ptr[r]; q < E.ptr[r + 1]; q++) {
+        for (let t = nPtr[r]; t < nPtr[r + 1]; t++) {
+          pos.push(posMap[nSp[t]].get(E.sp[q])!);
+          coef.push(nCoef[t]);
+        }
+        ptr[q + 1] = pos.length;
+      }
+    }
+    return { ptr, pos: Int32Array.from(pos), coef: Float64Array.from(coef) };
+  };
+  const FT = targets(FE);
+  const BT = targets(BE);
+  const ftPtr = FT.ptr, ftPos = FT.pos, ftCoef = FT.coef, btPtr = BT.ptr, btPos = BT.pos, btCoef = BT.coef;
 
   function jacobian(c: Float64Array, kf: Float64Array, kr: Float64Array, values: Float64Array): void {
     values.fill(0);
-    dv.fill(0);
     for (let r = 0; r < nR; r++) {
-      // forward: ∂(kf Π c^o)/∂c_s = kf·o_s·c_s^(o_s−1)·Π_{others}
-      const f0 = F.ptr[r], f1 = F.ptr[r + 1];
+      // forward: ∂(kf·Π c)/∂(factor q) = kf·Π_{p≠q} c (repeated factors sum to o·c^(o−1))
+      const f0 = fPtr[r], f1 = fPtr[r + 1];
       for (let q = f0; q < f1; q++) {
-        let d = kf[r] * F.ord[q] * (F.ord[q] === 1 ? 1 : power(c[F.sp[q]], F.ord[q] - 1));
-        for (let p = f0; p < f1; p++) if (p !== q) d *= power(c[F.sp[p]], F.ord[p]);
-        dv[fSlot[q]] += d;
+        let d = kf[r];
+        for (let p = f0; p < f1; p++) if (p !== q) d *= c[fSp[p]];
+        for (let t = ftPtr[q], e = ftPtr[q + 1]; t < e; t++) values[ftPos[t]] += ftCoef[t] * d;
       }
-      if (reversible[r]) {
-        const b0 = B.ptr[r], b1 = B.ptr[r + 1];
-        for (let q = b0; q < b1; q++) {
-          let d = kr[r] * B.ord[q] * (B.ord[q] === 1 ? 1 : power(c[B.sp[q]], B.ord[q] - 1));
-          for (let p = b0; p < b1; p++) if (p !== q) d *= power(c[B.sp[p]], B.ord[p]);
-          dv[bSlot[q]] -= d;
-        }
-      }
-      let idx = contribPtr[r];
-      const s0 = slotPtr[r], s1 = slotPtr[r + 1];
-      for (let q = nPtr[r]; q < nPtr[r + 1]; q++) {
-        const coef = nCoef[q];
-        for (let k = s0; k < s1; k++) values[contribPos[idx++]] += coef * dv[k];
+      const b0 = bPtr[r], b1 = bPtr[r + 1];
+      for (let q = b0; q < b1; q++) {
+        let d = kr[r];
+        for (let p = b0; p < b1; p++) if (p !== q) d *= c[bSp[p]];
+        for (let t = btPtr[q], e = btPtr[q + 1]; t < e; t++) values[btPos[t]] -= btCoef[t] * d;
       }
     }
   }

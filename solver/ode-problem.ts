@@ -66,7 +66,7 @@ export interface IntegrateOptions {
   maxStep?: number; // time units; default |tEnd − t0|
   /** Reject steps that take a component below −atol and clip tiny negatives to 0. Default false. */
   nonNegative?: boolean;
-  /** Linear solver choice; "auto" uses sparse LU for sparse Jacobians with n > 60. */
+  /** Linear solver choice; "auto" uses the sparse LU for a sparse Jacobian when its operation count (after ordering) is below the dense one. */
   linearSolver?: "auto" | "dense" | "sparse";
   /** Called after each accepted step. */
   onStep?: (step: StepView) => void;
