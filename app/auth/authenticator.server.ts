@@ -90,6 +90,26 @@ export async function signInWithPassword(db: Knex, form: FormData, ip: string): 
 
 /** Maps the provider's identity to a user: by subject, else by e-mail, else a new account. */
 export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): Promise<SignedIn> {
+  try {
+    return await linkOrCreate(db, claims, ip);
+  } catch (e) {
+    if (e instanceof SignInError) {
+      // Written after the rollback, so the refusal is on record while nothing else changed.
+      const known = await findUserByEmail(db, claims.email);
+      await audit(db, {
+        userId: known?.id ?? null,
+        action: "sign-in.failure",
+        objectType: known ? "user" : null,
+        objectId: known?.id ?? null,
+        detail: { method: "oidc", email: claims.email, reason: e.code === "disabled" ? "disabled" : "unconfirmed-email" },
+        ip,
+      });
+    }
+    throw e;
+  }
+}
+
+async function linkOrCreate(db: Knex, claims: IdClaims, ip: string): Promise<SignedIn> {
   return db.transaction(async (trx) => {
     let user = claims.sub ? await findUserByOidcSubject(trx, claims.sub) : null;
     if (!user) {
@@ -116,10 +136,7 @@ export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): 
       user = (await findUserByEmail(trx, claims.email))!;
       created = true;
     }
-    if (user.disabled) {
-      await audit(trx, { userId: user.id, action: "sign-in.failure", objectType: "user", objectId: user.id, detail: { method: "oidc", reason: "disabled" }, ip });
-      throw new SignInError("This account is disabled; ask an administrator.", "disabled");
-    }
+    if (user.disabled) throw new SignInError("This account is disabled; ask an administrator.", "disabled");
     await recordSignInAttempt(trx, { email: user.email, ip, success: true, method: "oidc" });
     await audit(trx, { userId: user.id, action: "sign-in.success", objectType: "user", objectId: user.id, detail: { method: "oidc", created }, ip });
     return { userId: user.id, method: "oidc" } as SignedIn;
