@@ -20,7 +20,7 @@ import { cancelRun, readableRun } from "~/compute/run-api.server";
 import { getDb } from "../../db/client.server";
 import { createRun, getRunSeries } from "../../db/access/runs.server";
 import { datasetOverlay, type OverlaySeries } from "~/compute/dataset-overlay.server";
-import { StatusBadge } from "./runs";
+import { StatusBadge } from "~/components/workbench/StatusBadge";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.run ? `Run #${data.run.id}` : "Run"} · Saddlebook` }];
