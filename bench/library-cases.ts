@@ -230,6 +230,8 @@ export async function runLibraryBench(): Promise<BenchCase[]> {
     cases.push(caseOf("library page first render GET /library (HTML, 100 newest)", emptyPageMs, 300));
     const mechPageMs = await timeIt(20, () => get(`/mechanisms/${mech.id}`));
     cases.push(caseOf("500-step mechanism page GET /mechanisms/:id (HTML)", mechPageMs, 200));
+    const mechDataMs = await timeIt(20, () => get(`/mechanisms/${mech.id}.data`));
+    cases.push(caseOf("500-step mechanism page data GET /mechanisms/:id.data (client navigation)", mechDataMs, 200));
   } finally {
     await stopApp().catch(() => {});
     await stopServices().catch(() => {});
