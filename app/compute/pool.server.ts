@@ -15,7 +15,7 @@ import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
-import { claimRun, endRunWithoutResults, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
+import { claimRun, endRunWithoutResults, failInterruptedRuns, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
 import type { RunTaskInput, RunTaskResult } from "./run-task";
 import type { FitTaskInput, FitTaskResult } from "./fit-task";
 
@@ -216,9 +216,25 @@ export class ComputeService {
 
 const KEY = Symbol.for("saddlebook.compute");
 
-/** The process-wide compute service on the app's database. */
-export function getComputeService(db: Knex): ComputeService {
-  const g = globalThis as unknown as Record<symbol, ComputeService | undefined>;
-  if (!g[KEY]) g[KEY] = new ComputeService(db);
+/**
+ * The process-wide compute service on the app's database. On first use, runs left queued or
+ * running by an earlier server process are marked failed with the reason, so no run waits
+ * forever: those created before the database's clock at that moment (one app process per
+ * database, as deployed). Callers that create runs await `ready` first, so their own runs are
+ * never among them.
+ */
+export function getComputeService(db: Knex): ComputeService & { ready: Promise<void> } {
+  const g = globalThis as unknown as Record<symbol, (ComputeService & { ready: Promise<void> }) | undefined>;
+  if (!g[KEY]) {
+    const svc = new ComputeService(db) as ComputeService & { ready: Promise<void> };
+    svc.ready = db
+      .raw("SELECT NOW(3) AS t")
+      .then((r: unknown) => {
+        const rows = (Array.isArray(r) ? r[0] : r) as { t: Date }[];
+        return failInterruptedRuns(db, rows[0].t);
+      })
+      .then(() => undefined, () => undefined);
+    g[KEY] = svc;
+  }
   return g[KEY]!;
 }

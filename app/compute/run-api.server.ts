@@ -130,6 +130,8 @@ export async function startRun(db: Knex, actor: Actor, body: RunCreate): Promise
   const prep = await prepareRun(db, actor, body);
   if (!prep.ok) return prep;
   const p = prep.value;
+  const pool = getComputeService(db);
+  await pool.ready;
   const id = await createRun(db, {
     ownerId: actor.id,
     name: body.name ?? `${p.snapshot.about.name}`,
@@ -141,7 +143,7 @@ export async function startRun(db: Knex, actor: Actor, body: RunCreate): Promise
     analysisRequest: body.analysis ?? null,
     tEnd: p.tEnd,
   });
-  void getComputeService(db).submit(id);
+  void pool.submit(id);
   return { ok: true, id };
 }
 

@@ -84,6 +84,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     // Same snapshot, conditions and settings: the run is reproduced from what was stored.
     const { getComputeService } = await import("~/compute/pool.server");
     if (!can(user, { do: "run.create", object: { ownerId: user.id, visibility: "private" } })) return { message: "Your role does not allow starting runs." };
+    const pool = getComputeService(db);
+    await pool.ready;
     const id = await createRun(db, {
       ownerId: user.id,
       name: `${r.run.name} (repeat of #${r.run.id})`.slice(0, 300),
@@ -95,7 +97,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       analysisRequest: r.run.analysisRequest,
       tEnd: r.run.tEnd,
     });
-    void getComputeService(db).submit(id);
+    void pool.submit(id);
     return redirect(`/runs/${id}`);
   }
   return { message: "Unknown request." };

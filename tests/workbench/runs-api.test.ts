@@ -26,6 +26,7 @@ vi.mock("~/auth/api-auth.server", async () => {
 const KB = 1.380649e-23, H = 6.62607015e-34, R = KB * 6.02214076e23; // CODATA 2018 exact
 
 let t: TestDatabase;
+let staleId = 0;
 let runs: typeof import("../../app/routes/api.v1.runs");
 let one: typeof import("../../app/routes/api.v1.runs.$id");
 let cancel: typeof import("../../app/routes/api.v1.runs.$id.cancel");
@@ -36,6 +37,17 @@ beforeAll(async () => {
   process.env.DATABASE_URL = t.url;
   const [uid] = await t.db("users").insert({ email: "runner@example.test", name: "Run tester", role: "author" });
   auth.userId = uid;
+  // a run left "running" by an earlier server process, an hour ago
+  const { createRun } = await import("../../db/access/runs.server");
+  const { resolveSolver } = await import("../../app/compute/run-request");
+  staleId = await createRun(t.db, {
+    ownerId: uid,
+    snapshot: firstOrder(),
+    conditions: { temperature: { value: 300, unit: "K" }, initial: { A: { value: 1, unit: "mol/L" } }, endTime: { value: 10, unit: "s" } },
+    solver: resolveSolver({}),
+    tEnd: 10,
+  });
+  await t.db("runs").where({ id: staleId }).update({ status: "running", created_at: t.db.raw("NOW(3) - INTERVAL 1 HOUR") });
   runs = await import("../../app/routes/api.v1.runs");
   one = await import("../../app/routes/api.v1.runs.$id");
   cancel = await import("../../app/routes/api.v1.runs.$id.cancel");
@@ -116,6 +128,13 @@ describe("POST /api/v1/runs → poll → results", () => {
     expect(lines.length).toBe(301);
   });
 
+  it("marks a run left running by an earlier server process as failed, with the reason", async () => {
+    const stale = await get(staleId);
+    expect(stale.json.run.status).toBe("failed");
+    expect(stale.json.run.failureCode).toBe("interrupted");
+    expect(stale.json.run.reason).toMatch(/restarted/);
+  });
+
   it("refuses a bad body with field errors and a run for an unknown species with 422", async () => {
     const bad = await start({ mechanism: firstOrder(), conditions: { temperature: { value: 300, unit: "K" }, initial: {}, endTime: { value: -1, unit: "s" } } });
     expect(bad.status).toBe(400);
@@ -124,7 +143,7 @@ describe("POST /api/v1/runs → poll → results", () => {
     expect(unknown.status).toBe(422);
     expect(unknown.json.error.fields["conditions.initial.Z"]).toMatch(/not in the mechanism/);
     const count = await t.db("runs").count({ n: "*" }).first();
-    expect(Number(count!.n)).toBe(1); // nothing stored for refused requests
+    expect(Number(count!.n)).toBe(2); // the stale run and the first run: nothing stored for refused requests
   });
 
   it("answers 404 for a run that does not exist and 401 without a user", async () => {

@@ -1,0 +1,41 @@
+// The activation-parameter page in the browser: a pasted k(T) table generated from ΔH‡ = 75 kJ/mol
+// and ΔS‡ = −40 J/(mol K) by the Eyring equation (CODATA 2018 constants) gives those values back
+// with both plots drawn; a bad line is named by its number and the text is kept.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+
+const KB = 1.380649e-23, H = 6.62607015e-34, R = KB * 6.02214076e23;
+const k = (T: number) => ((KB * T) / H) * Math.exp(-40 / R) * Math.exp(-75e3 / (R * T));
+
+describe.skipIf(!hasApp())("activation parameters in the browser", () => {
+  let b: BrowserSession;
+  beforeAll(async () => {
+    b = await openBrowser();
+  });
+  afterAll(async () => {
+    await b?.close();
+  });
+
+  it("fits Eyring and Arrhenius to a pasted table", async () => {
+    await b.page.goto(appUrl() + "/analysis");
+    const table = ["T/°C, k/s-1", ...[20, 30, 40, 50, 60].map((c) => `${c}, ${k(c + 273.15).toExponential(6)}`)].join("\n");
+    await b.page.fill("#table", table);
+    await b.page.selectOption('select[name="temperatureUnit"]', "degC");
+    await b.page.click('button:has-text("Fit Eyring and Arrhenius")');
+    await b.page.getByTestId("eyring-plot").waitFor();
+    expect(await b.page.getByTestId("dH").textContent()).toMatch(/^75\.0\d* ± 0\.0\d* kJ\/mol$/);
+    expect(Number.parseFloat((await b.page.getByTestId("dS").textContent())!)).toBeCloseTo(-40, 1);
+    expect(await b.page.getByTestId("arrhenius-plot").count()).toBe(1);
+    await b.screenshot("workbench-analysis");
+  });
+
+  it("names the line of a bad row and keeps the input", async () => {
+    await b.page.fill("#table", "300, 1e-3\n310, 2e-3\n320, two\n330, 8e-3");
+    await b.page.selectOption('select[name="temperatureUnit"]', "K");
+    await b.page.click('button:has-text("Fit Eyring and Arrhenius")');
+    await b.page.getByTestId("analysis-error").waitFor();
+    expect(await b.page.getByTestId("analysis-error").textContent()).toMatch(/Line 3: the rate constant is not a number \("two"\)/);
+    expect(await b.page.inputValue("#table")).toContain("320, two");
+    expect(b.problems).toEqual([]);
+  });
+});
