@@ -1,4 +1,5 @@
 /** A mechanism: its steps with k at a chosen T, pinned-step updates on offer, forks and lineage; the owner edits it here. */
+import { useState } from "react";
 import { Form, Link, useActionData, useNavigation, redirect } from "react-router";
 import type { Route } from "./+types/mechanisms.$id";
 import { getOptionalUser, requireUser } from "~/auth/current-user.server";
@@ -131,6 +132,9 @@ export default function MechanismPage({ loaderData: d }: Route.ComponentProps) {
   const result = useActionData<typeof action>();
   const busy = useNavigation().state === "submitting";
   const failure = result && "ok" in result && !result.ok ? result : null;
+  // Long mechanisms show their first 100 steps until asked for all (keeps the first render quick).
+  const [showAll, setShowAll] = useState(d.steps.length <= 150);
+  const shown = showAll ? d.steps : d.steps.slice(0, 100);
   return (
     <div className="space-y-4">
       <p className="text-sm text-ink-600">
@@ -206,7 +210,7 @@ export default function MechanismPage({ loaderData: d }: Route.ComponentProps) {
             </tr>
           </thead>
           <tbody>
-            {d.steps.map((s, i) => (
+            {shown.map((s, i) => (
               <tr key={s.key} className="border-t border-ink-100 align-top">
                 <td className="num py-1 text-ink-500">{i + 1}</td>
                 <td>
@@ -249,6 +253,11 @@ export default function MechanismPage({ loaderData: d }: Route.ComponentProps) {
             ))}
           </tbody>
         </table>
+        {!showAll && (
+          <button type="button" className="btn-quiet mt-2" onClick={() => setShowAll(true)}>
+            Show all {d.steps.length} steps
+          </button>
+        )}
         <p className="mt-2 text-xs text-ink-600">
           Rate constants are model estimates. For heating, scale-up or accumulation of energetic intermediates, calorimetric measurement and the site's process-safety review decide; local regulations and licensed practice govern.
         </p>
