@@ -23,6 +23,7 @@ import { getDb } from "../../db/client.server";
 import { datasetAsOwned, datasetInSI, getDataset, type DatasetRecord } from "../../db/access/datasets.server";
 import { listRuns, runAsOwned } from "../../db/access/runs.server";
 import { createFit, getFit, listFitsForDataset } from "../../db/access/fits.server";
+import { saveFitAsStepVersions, type SaveOutcome } from "~/compute/fit-save.server";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.dataset?.name ?? "Dataset"} · Saddlebook` }];
@@ -81,6 +82,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   await assertCsrf(request, form);
   const d = await readable(user, params.id);
   const db = getDb();
+  if (form.get("intent") === "save-fit") {
+    const fit = await getFit(db, Number(form.get("fitId")));
+    if (!fit || fit.ownerId !== user.id || !fit.datasetIds.includes(d.id)) return { message: "There is no such fit of yours on this dataset." };
+    return { message: null, saved: await saveFitAsStepVersions(db, user, fit, d.name) };
+  }
   const r = await readableRun(db, user, String(form.get("runId") ?? ""));
   if (!r.ok) return { message: "Choose a finished run as the model." };
   const run = r.run;
@@ -189,7 +195,7 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
         )}
       </section>
 
-      {fit && <FitResult fit={fit} />}
+      {fit && <FitResult fit={fit} saved={(actionData as { saved?: SaveOutcome[] } | undefined)?.saved ?? null} />}
 
       <section className="panel">
         <h2 className="mb-2 font-semibold">Values</h2>
@@ -227,7 +233,7 @@ function FitChooser({ runs }: { runs: { id: number; name: string; steps: string[
   );
 }
 
-function FitResult({ fit }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]> }) {
+function FitResult({ fit, saved }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]>; saved: SaveOutcome[] | null }) {
   const s = fit.statistics;
   const resid = useMemo<PlotSeries[]>(
     () =>
@@ -281,6 +287,33 @@ function FitResult({ fit }: { fit: NonNullable<Route.ComponentProps["loaderData"
         {s.iterations} iterations, {s.simulations} simulations, {s.converged ? "converged" : "not converged"} ({s.stopReason}), {num(s.wallMs, 3)} ms.
         {fit.statistics.runId && <> Model: run #{fit.statistics.runId}.</>}
       </p>
+      {fit.mechanismId !== null && (
+        <Form method="post" className="flex flex-wrap items-center gap-2">
+          <CsrfInput />
+          <input type="hidden" name="fitId" value={fit.id} />
+          <button className="btn-quiet" name="intent" value="save-fit">
+            Save as new step versions
+          </button>
+          <span className="text-xs text-ink-500">Library steps of mechanism {fit.mechanismId} v{fit.mechanismVersion} get a new version with the fitted barrier, its SE as uncertainty and this dataset as provenance.</span>
+        </Form>
+      )}
+      {saved && (
+        <ul className="text-sm" data-testid="fit-saved">
+          {saved.map((o) => (
+            <li key={o.stepId} className={o.saved ? "text-moss-700" : "text-brick-700"}>
+              {o.stepId}: {o.message}
+              {o.libraryStepId && (
+                <>
+                  {" "}
+                  <Link className="underline" to={`/steps/${o.libraryStepId}`}>
+                    open
+                  </Link>
+                </>
+              )}
+            </li>
+          ))}
+        </ul>
+      )}
       <div className="grid gap-4 lg:grid-cols-2">
         <ConcentrationPlot series={overlay} title="Measured and fitted" testId="fit-plot" />
         <ConcentrationPlot series={resid} title="Residuals (mol/L)" testId="residual-plot" />
