@@ -20,6 +20,7 @@ import { cancelRun, readableRun } from "~/compute/run-api.server";
 import { getDb } from "../../db/client.server";
 import { createRun, getRunSeries } from "../../db/access/runs.server";
 import { datasetOverlay, type OverlaySeries } from "~/compute/dataset-overlay.server";
+import { listDatasets } from "../../db/access/datasets.server";
 import { StatusBadge } from "~/components/workbench/StatusBadge";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
@@ -36,7 +37,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const overlayId = Number(url.searchParams.get("overlay") ?? "");
   const overlay: OverlaySeries[] | null = Number.isInteger(overlayId) && overlayId > 0 ? await datasetOverlay(db, user, overlayId) : null;
+  const datasets = run.status === "done" ? (await listDatasets(db, user, { limit: 100 })).map((d) => ({ id: d.id, name: d.name, T: d.temperatureK })) : [];
   return {
+    datasets,
+    overlayId: overlay ? overlayId : null,
     run: {
       id: run.id,
       name: run.name,
@@ -104,7 +108,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function RunPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { run, series, overlay } = loaderData;
+  const { run, series, overlay, datasets, overlayId } = loaderData;
   const active = run.status === "queued" || run.status === "running";
   const revalidator = useRevalidator();
   const nav = useNavigation();
@@ -219,6 +223,20 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
           <section className="panel">
             <ConcentrationPlot series={plotSeries} defaultLogX={run.conditions.output?.grid !== "linear"} filename={`saddlebook-run-${run.id}.png`} />
             {overlay && <p className="mt-1 text-xs text-ink-500">Points: measured dataset (concentrations converted to mol/L, times to s).</p>}
+            {datasets.length > 0 && (
+              <Form method="get" className="mt-2 flex flex-wrap items-center gap-2 text-sm">
+                <label htmlFor="overlay">Overlay measured data:</label>
+                <select id="overlay" name="overlay" className="field w-auto py-0.5" defaultValue={overlayId ?? ""}>
+                  <option value="">none</option>
+                  {datasets.map((d) => (
+                    <option key={d.id} value={d.id}>
+                      {d.name} ({num(d.T, 5)} K)
+                    </option>
+                  ))}
+                </select>
+                <button className="btn-quiet py-0.5">Show</button>
+              </Form>
+            )}
           </section>
           <RunSummary analysis={a} statistics={run.statistics!} warnings={run.warnings} />
           <section className="panel">

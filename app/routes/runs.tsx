@@ -1,5 +1,6 @@
 /** /runs — the runs you can see: status and progress, links to results, pick two to compare. */
-import { Form, Link } from "react-router";
+import { useEffect } from "react";
+import { Form, Link, useRevalidator } from "react-router";
 import type { Route } from "./+types/runs";
 import { requireUser } from "~/auth/current-user.server";
 import { getDb } from "../../db/client.server";
@@ -35,6 +36,13 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export default function RunsPage({ loaderData }: Route.ComponentProps) {
   const { runs } = loaderData;
+  const revalidator = useRevalidator();
+  const active = runs.some((r) => r.status === "queued" || r.status === "running");
+  useEffect(() => {
+    if (!active) return;
+    const t = setInterval(() => revalidator.state === "idle" && void revalidator.revalidate(), 1500);
+    return () => clearInterval(t);
+  }, [active, revalidator]);
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-center gap-3">
