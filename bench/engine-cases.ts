@@ -112,7 +112,7 @@ function median(xs: number[]): number {
  * server or browser tab runs it), then `runs` timed calls. Returns the median wall ms, the median
  * CPU ms of this process (less sensitive to other load on the machine), the cold ms and the last value.
  */
-function timeIt<T>(fn: () => T, runs: number, warmCalls = 20, warmMs = 300): { ms: number; cpuMs: number; coldMs: number; value: T } {
+function timeIt<T>(fn: () => T, runs: number, warmCalls = 50, warmMs = 1000): { ms: number; cpuMs: number; coldMs: number; value: T } {
   const c0 = performance.now();
   let value = fn();
   const coldMs = performance.now() - c0;

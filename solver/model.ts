@@ -146,49 +146,46 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
   for (let i = 0; i < nS; i++) stRows[i].forEach(([r, v], k) => ((stCol[stPtr[i] + k] = r), (stVal[stPtr[i] + k] = v)));
 
   // ---- evaluation tables, compiled once into flat typed arrays.
-  // Each rate factor is listed once per unit of its order (2A → [A, A]), so a rate is a plain
-  // product kf·c_a·c_b·… with at most three factors per side (molecularity ≤ 3 is enforced for
-  // every side that enters a rate law). Irreversible steps get an empty reverse list.
-  const expand = (sides: Side[], use: (r: number) => boolean) => {
-    const ptr = new Int32Array(nR + 1);
-    const list: number[] = [];
-    for (let r = 0; r < nR; r++) {
-      if (use(r)) sides[r].sp.forEach((sp, k) => {
-        for (let o = 0; o < sides[r].ord[k]; o++) list.push(sp);
+  // Each rate factor is listed once per unit of its order (2A → [A, A]), padded to exactly three
+  // factors per side with the index nS, which points at a constant 1 in the work copy `cx` of the
+  // concentrations (molecularity ≤ 3 is enforced for every side that enters a rate law). So a
+  // rate is kf·cx[a]·cx[b]·cx[c] with no inner loop. Irreversible steps have isRev 0.
+  const f3 = new Int32Array(3 * nR).fill(nS);
+  const b3 = new Int32Array(3 * nR).fill(nS);
+  const isRev = new Uint8Array(nR);
+  for (let r = 0; r < nR; r++) {
+    let q = 0;
+    fwd[r].sp.forEach((sp, k) => {
+      for (let o = 0; o < fwd[r].ord[k]; o++) f3[3 * r + q++] = sp;
+    });
+    if (reversible[r]) {
+      isRev[r] = 1;
+      q = 0;
+      rev[r].sp.forEach((sp, k) => {
+        for (let o = 0; o < rev[r].ord[k]; o++) b3[3 * r + q++] = sp;
       });
-      ptr[r + 1] = list.length;
     }
-    return { ptr, sp: Int32Array.from(list) };
-  };
-  const FE = expand(fwd, () => true);
-  const BE = expand(rev, (r) => reversible[r] === 1);
-  const fPtr = FE.ptr, fSp = FE.sp, bPtr = BE.ptr, bSp = BE.sp;
+  }
+  const cx = new Float64Array(nS + 1);
+  cx[nS] = 1;
 
   function rates(c: Float64Array, kf: Float64Array, kr: Float64Array, v: Float64Array): void {
+    for (let i = 0; i < nS; i++) cx[i] = c[i];
     for (let r = 0; r < nR; r++) {
-      let a = kf[r];
-      for (let q = fPtr[r], e = fPtr[r + 1]; q < e; q++) a *= c[fSp[q]];
-      const b0 = bPtr[r], b1 = bPtr[r + 1];
-      if (b1 > b0) {
-        let b = kr[r];
-        for (let q = b0; q < b1; q++) b *= c[bSp[q]];
-        a -= b;
-      }
+      const q = 3 * r;
+      let a = kf[r] * cx[f3[q]] * cx[f3[q + 1]] * cx[f3[q + 2]];
+      if (isRev[r] === 1) a -= kr[r] * cx[b3[q]] * cx[b3[q + 1]] * cx[b3[q + 2]];
       v[r] = a;
     }
   }
   function rhs(c: Float64Array, kf: Float64Array, kr: Float64Array, dcdt: Float64Array): void {
+    for (let i = 0; i < nS; i++) cx[i] = c[i];
     dcdt.fill(0);
     for (let r = 0; r < nR; r++) {
-      let a = kf[r];
-      for (let q = fPtr[r], e = fPtr[r + 1]; q < e; q++) a *= c[fSp[q]];
-      const b0 = bPtr[r], b1 = bPtr[r + 1];
-      if (b1 > b0) {
-        let b = kr[r];
-        for (let q = b0; q < b1; q++) b *= c[bSp[q]];
-        a -= b;
-      }
-      for (let q = nPtr[r], e = nPtr[r + 1]; q < e; q++) dcdt[nSp[q]] += nCoef[q] * a;
+      const q = 3 * r;
+      let a = kf[r] * cx[f3[q]] * cx[f3[q + 1]] * cx[f3[q + 2]];
+      if (isRev[r] === 1) a -= kr[r] * cx[b3[q]] * cx[b3[q + 1]] * cx[b3[q + 2]];
+      for (let t = nPtr[r], e = nPtr[r + 1]; t < e; t++) dcdt[nSp[t]] += nCoef[t] * a;
     }
   }
 
@@ -211,42 +208,57 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
     rowLists[i].forEach((s, k) => ((jCol[jPtr[i] + k] = s), m.set(s, jPtr[i] + k)));
     posMap.push(m);
   }
-  // For every rate factor q (expanded lists), ∂v/∂c at that factor is ±k·Π(other factors), and it
-  // enters row i of the Jacobian with the net coefficient of i: targets tPos/tCoef per factor.
-  const targets = (E: { ptr: Int32Array; sp: Int32Array }) => {
-    const ptr = new Int32Array(E.sp.length + 1);
+  // For every padded factor slot q (3 per side and step), ∂v/∂(factor q) = ±k·(product of the
+  // other two slots); it enters row i of the Jacobian with the net coefficient of i. Padding
+  // slots have no targets. Targets per slot: tPos/tCoef from tPtr[q].
+  const targets = (S3: Int32Array, use: (r: number) => boolean) => {
+    const ptr = new Int32Array(3 * nR + 1);
     const pos: number[] = [];
     const coef: number[] = [];
     for (let r = 0; r < nR; r++) {
-      for (let q = E.ptr[r]; q < E.ptr[r + 1]; q++) {
-        for (let t = nPtr[r]; t < nPtr[r + 1]; t++) {
-          pos.push(posMap[nSp[t]].get(E.sp[q])!);
-          coef.push(nCoef[t]);
+      for (let j = 0; j < 3; j++) {
+        const q = 3 * r + j;
+        const sp = S3[q];
+        if (use(r) && sp < nS) {
+          for (let t = nPtr[r]; t < nPtr[r + 1]; t++) {
+            pos.push(posMap[nSp[t]].get(sp)!);
+            coef.push(nCoef[t]);
+          }
         }
         ptr[q + 1] = pos.length;
       }
     }
     return { ptr, pos: Int32Array.from(pos), coef: Float64Array.from(coef) };
   };
-  const FT = targets(FE);
-  const BT = targets(BE);
+  const FT = targets(f3, () => true);
+  const BT = targets(b3, (r) => isRev[r] === 1);
   const ftPtr = FT.ptr, ftPos = FT.pos, ftCoef = FT.coef, btPtr = BT.ptr, btPos = BT.pos, btCoef = BT.coef;
 
   function jacobian(c: Float64Array, kf: Float64Array, kr: Float64Array, values: Float64Array): void {
+    for (let i = 0; i < nS; i++) cx[i] = c[i];
     values.fill(0);
     for (let r = 0; r < nR; r++) {
-      // forward: ∂(kf·Π c)/∂(factor q) = kf·Π_{p≠q} c (repeated factors sum to o·c^(o−1))
-      const f0 = fPtr[r], f1 = fPtr[r + 1];
-      for (let q = f0; q < f1; q++) {
-        let d = kf[r];
-        for (let p = f0; p < f1; p++) if (p !== q) d *= c[fSp[p]];
-        for (let t = ftPtr[q], e = ftPtr[q + 1]; t < e; t++) values[ftPos[t]] += ftCoef[t] * d;
-      }
-      const b0 = bPtr[r], b1 = bPtr[r + 1];
-      for (let q = b0; q < b1; q++) {
-        let d = kr[r];
-        for (let p = b0; p < b1; p++) if (p !== q) d *= c[bSp[p]];
+      // ∂(k·x0·x1·x2)/∂x_j = k·Π_{others}; repeated factors (2A) sum to 2k·c_A
+      const q = 3 * r;
+      let x0 = cx[f3[q]], x1 = cx[f3[q + 1]], x2 = cx[f3[q + 2]];
+      let k = kf[r];
+      let d = k * x1 * x2;
+      for (let t = ftPtr[q], e = ftPtr[q + 1]; t < e; t++) values[ftPos[t]] += ftCoef[t] * d;
+      d = k * x0 * x2;
+      for (let t = ftPtr[q + 1], e = ftPtr[q + 2]; t < e; t++) values[ftPos[t]] += ftCoef[t] * d;
+      d = k * x0 * x1;
+      for (let t = ftPtr[q + 2], e = ftPtr[q + 3]; t < e; t++) values[ftPos[t]] += ftCoef[t] * d;
+      if (isRev[r] === 1) {
+        x0 = cx[b3[q]];
+        x1 = cx[b3[q + 1]];
+        x2 = cx[b3[q + 2]];
+        k = kr[r];
+        d = k * x1 * x2;
         for (let t = btPtr[q], e = btPtr[q + 1]; t < e; t++) values[btPos[t]] -= btCoef[t] * d;
+        d = k * x0 * x2;
+        for (let t = btPtr[q + 1], e = btPtr[q + 2]; t < e; t++) values[btPos[t]] -= btCoef[t] * d;
+        d = k * x0 * x1;
+        for (let t = btPtr[q + 2], e = btPtr[q + 3]; t < e; t++) values[btPos[t]] -= btCoef[t] * d;
       }
     }
   }
