@@ -34,7 +34,7 @@ describe.skipIf(!hasApp() || !process.env.OIDC_ISSUER)("single sign-on through t
     expect(me).toMatchObject({ email: "curator@saddlebook.test", role: "curator" });
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.waitForURL(/\/sign-in\?notice=signed-out$/);
-  });
+  }, 45_000);
 
   it("signs the demo admin in, who sorts and filters the users table", async () => {
     const { page } = b;
@@ -49,12 +49,12 @@ describe.skipIf(!hasApp() || !process.env.OIDC_ISSUER)("single sign-on through t
     expect(first).toEqual([...first].sort());
     expect(first).toEqual(expect.arrayContaining(["admin@saddlebook.test", "viewer@saddlebook.test"]));
     await table.getByRole("button", { name: /E-mail/ }).click();
-    await expect.poll(emails).toEqual([...first].sort().reverse());
+    await expect.poll(emails, { timeout: 10_000 }).toEqual([...first].sort().reverse());
     await page.getByLabel("Filter users").fill("curator");
-    await expect.poll(emails).toEqual(["curator@saddlebook.test"]);
+    await expect.poll(emails, { timeout: 10_000 }).toEqual(["curator@saddlebook.test"]);
     await b.screenshot("auth-admin-users");
     expect(b.problems).toEqual([]);
-  });
+  }, 45_000);
 
   it("creates an account for a newcomer on first sign-in, from the ID token's e-mail and name", async () => {
     const { page } = b;
@@ -64,5 +64,5 @@ describe.skipIf(!hasApp() || !process.env.OIDC_ISSUER)("single sign-on through t
     await ssoAs("Nell Okafor");
     const me = await page.evaluate(async () => (await fetch("/api/v1/me")).json());
     expect(me).toMatchObject({ email: "newcomer@saddlebook.test", name: "Nell Okafor", role: "viewer", groups: [] });
-  });
+  }, 45_000);
 });

@@ -11,7 +11,7 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
   });
   afterAll(async () => {
     await b?.close();
-  });
+  }, 45_000);
 
   it("refuses a wrong password with a clear sentence and keeps the address", async () => {
     const { page } = b;
@@ -19,12 +19,12 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
     await page.getByLabel("E-mail", { exact: true }).fill("author2@saddlebook.test");
     await page.getByLabel("Password", { exact: true }).fill("not-the-password");
     await page.getByRole("button", { name: "Sign in", exact: true }).click();
-    await expect.poll(() => page.getByRole("alert").textContent()).toBe("The e-mail address or the password is wrong.");
+    await expect.poll(() => page.getByRole("alert").textContent(), { timeout: 10_000 }).toBe("The e-mail address or the password is wrong.");
     expect(await page.getByLabel("E-mail", { exact: true }).inputValue()).toBe("author2@saddlebook.test");
     // The refusal is an HTTP 400, which Chromium reports on the console; nothing else may be.
     expect(b.problems.every((p) => /status of 400/.test(p))).toBe(true);
     b.problems.length = 0;
-  });
+  }, 45_000);
 
   it("signs the demo author in, returning to the page asked for, with the account menu", async () => {
     const { page } = b;
@@ -34,7 +34,7 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
     await page.getByLabel("Password", { exact: true }).fill("saddlebook-demo");
     await page.getByRole("button", { name: "Sign in", exact: true }).click();
     await page.waitForURL(appUrl() + "/settings");
-    await expect.poll(() => page.getByRole("heading", { name: "Settings" }).isVisible()).toBe(true);
+    await expect.poll(() => page.getByRole("heading", { name: "Settings" }).isVisible(), { timeout: 10_000 }).toBe(true);
     const menu = page.locator("header summary");
     expect(await menu.textContent()).toContain("Anouk Brandt");
     await menu.click();
@@ -42,7 +42,7 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
     expect(links).toEqual(expect.arrayContaining(["Settings", "API tokens", "Groups"]));
     expect(links).not.toContain("Users (admin)");
     await b.screenshot("auth-account-menu");
-  });
+  }, 45_000);
 
   it("creates an API token shown once, which /api/v1/me accepts until it is revoked", async () => {
     const { page } = b;
@@ -61,11 +61,11 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
     const row = page.locator("tr", { hasText: "browser test script" });
     expect(await row.textContent()).not.toContain("never");
     await row.getByRole("button", { name: "Revoke browser test script" }).click();
-    await expect.poll(() => page.getByRole("status").first().textContent()).toMatch(/revoked/);
+    await expect.poll(() => page.getByRole("status").first().textContent(), { timeout: 10_000 }).toMatch(/revoked/);
     const after = await fetch(appUrl() + "/api/v1/me", { headers: { Authorization: `Bearer ${token}` } });
     expect(after.status).toBe(401);
     expect((await after.json()).error.code).toBe("unauthorized");
-  });
+  }, 45_000);
 
   it("signs out from the account menu", async () => {
     const { page } = b;
@@ -78,5 +78,5 @@ describe.skipIf(!hasApp())("sign-in with e-mail and password", () => {
     await page.goto(appUrl() + "/settings");
     await page.waitForURL(/\/sign-in/);
     expect(b.problems).toEqual([]);
-  });
+  }, 45_000);
 });

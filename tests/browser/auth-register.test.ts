@@ -23,7 +23,7 @@ describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e
     await page.getByLabel("Password", { exact: true }).fill("short");
     await page.getByLabel("Password again").fill("short");
     await page.getByRole("button", { name: "Create account" }).click();
-    await expect.poll(() => page.getByText("Use at least 10 characters.").isVisible()).toBe(true);
+    await expect.poll(() => page.getByText("Use at least 10 characters.").isVisible(), { timeout: 10_000 }).toBe(true);
     expect(await page.getByLabel("E-mail", { exact: true }).inputValue()).toBe(email);
     // The refusal is an HTTP 400, which Chromium reports on the console; nothing else may be.
     expect(b.problems.filter((p) => !/status of 400/.test(p))).toEqual([]);
@@ -41,9 +41,10 @@ describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e
     const link = mail.getByRole("link", { name: /\/verify-email\?token=/ });
     const href = await link.getAttribute("href");
     await link.click();
-    await expect.poll(() => page.getByRole("status").first().textContent()).toBe("Your e-mail address is confirmed.");
+    await expect.poll(() => page.getByRole("status").first().textContent(), { timeout: 10_000 }).toBe("Your e-mail address is confirmed.");
 
     await page.getByRole("link", { name: "Sign in" }).last().click();
+    await page.waitForURL(/\/sign-in/);
     await page.getByLabel("E-mail", { exact: true }).fill(email);
     await page.getByLabel("Password", { exact: true }).fill("arrhenius-plot-7");
     await page.getByRole("button", { name: "Sign in", exact: true }).click();
@@ -53,17 +54,20 @@ describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e
     await page.goto(href!, { waitUntil: "networkidle" });
     expect(await page.getByRole("alert").textContent()).toBe("This link has already been used. Ask for a new one if you still need it.");
     expect(b.problems).toEqual([]);
-  });
+  }, 60_000);
 
   it("resets the forgotten password through the mailed link, which then works no more", async () => {
     const { page } = b;
+    page.setDefaultTimeout(15_000);
     await page.locator("header summary").click();
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.waitForURL(/\/sign-in/);
     await page.getByRole("link", { name: "Forgot your password?" }).click();
+    await page.waitForURL(/\/forgot-password$/);
+    await page.getByRole("heading", { name: "Forgot your password?" }).waitFor();
     await page.getByLabel("E-mail", { exact: true }).fill(email);
     await page.getByRole("button", { name: "Send the link" }).click();
-    await expect.poll(() => page.getByRole("status").first().textContent()).toContain("the link is on its way");
+    await expect.poll(() => page.getByRole("status").first().textContent(), { timeout: 10_000 }).toContain("the link is on its way");
 
     await page.goto(appUrl() + `/dev/mailbox?to=${encodeURIComponent(email)}`, { waitUntil: "networkidle" });
     const mail = page.getByRole("article", { name: "Set a new Saddlebook password" });
@@ -84,5 +88,5 @@ describe.skipIf(!hasApp() || !process.env.MAIL_CATCHER_DIR)("registration with e
     expect(await page.getByRole("alert").textContent()).toBe("This link has already been used. Ask for a new one if you still need it.");
     expect(await page.getByLabel("New password", { exact: true }).count()).toBe(0);
     expect(b.problems).toEqual([]);
-  });
+  }, 60_000);
 });
