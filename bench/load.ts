@@ -101,7 +101,7 @@ async function main() {
       conditions: { temperature: { value: 298.15, unit: "K" }, initial: { A: { value: 0.1, unit: "mol/L" } }, endTime: { value: 10, unit: "h" }, output: { grid: "linear", points: 100 } },
     });
 
-    const cases: Array<{ name: string; kind: "page" | "api"; opts: Partial<autocannon.Options> & { path: string } }> = [
+    const cases: Array<{ name: string; kind: "page" | "api"; opts: { path: string; method?: string; headers?: Record<string, string>; body?: string } }> = [
       { name: "search API  GET /api/v1/steps?q=", kind: "api", opts: { path: "/api/v1/steps?q=hydride", headers: bearer } },
       { name: "library page GET /library", kind: "page", opts: { path: "/library?q=hydride", headers: { Cookie: cookie } } },
       ...(mech ? [{ name: `mechanism page GET /mechanisms/${mech.id}`, kind: "page" as const, opts: { path: `/mechanisms/${mech.id}`, headers: { Cookie: cookie } } }] : []),
@@ -113,13 +113,13 @@ async function main() {
     const rows: string[][] = [];
     for (const c of cases) {
       // Warm up (JIT, connection pool), then measure.
-      await autocannon({ url: appUrl + c.opts.path, connections: 5, duration: 1, method: c.opts.method, headers: c.opts.headers, body: c.opts.body });
+      await autocannon({ url: appUrl + c.opts.path, connections: 5, duration: 1, method: c.opts.method ?? "GET", headers: c.opts.headers, body: c.opts.body });
       const before = rssMiB(pid);
       const r = await autocannon({
         url: appUrl + c.opts.path,
         connections: CONNECTIONS,
         duration: seconds,
-        method: c.opts.method,
+        method: c.opts.method ?? "GET",
         headers: c.opts.headers,
         body: c.opts.body,
       });

@@ -24,7 +24,13 @@ export function knexConfigFromUrl(url: string, pool?: { min: number; max: number
       supportBigNumbers: true,
       connectTimeout: 5000,
     },
-    pool: pool ?? { min: 0, max: 10 },
+    pool: {
+      ...(pool ?? { min: 0, max: 10 }),
+      // Sessions in UTC, so database-default timestamps and times from Node agree.
+      afterCreate(conn: { query(sql: string, cb: (err: Error | null) => void): void }, done: (err: Error | null, conn: unknown) => void) {
+        conn.query("SET time_zone = '+00:00'", (err) => done(err, conn));
+      },
+    },
     acquireConnectionTimeout: 10_000,
   };
 }

@@ -19,6 +19,7 @@ const NAV = [
   { to: "/mechanisms", label: "Mechanisms" },
   { to: "/runs", label: "Runs" },
   { to: "/data", label: "Data" },
+  { to: "/analysis", label: "Activation analysis" },
 ];
 
 function navClass({ isActive }: { isActive: boolean }) {
@@ -58,6 +59,9 @@ export function AppShell({ user, csrf, children }: { user: ShellUser | null; csr
                   </Link>
                   <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/settings/tokens">
                     API tokens
+                  </Link>
+                  <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/api/v1/docs">
+                    API reference
                   </Link>
                   <Link className="block px-3 py-1.5 hover:bg-ink-50" to="/groups">
                     Groups

@@ -168,6 +168,9 @@ export default function MechanismPage({ loaderData: d }: Route.ComponentProps) {
           {!d.isCurrent && <p className="mt-1 text-sm text-brick-700">You are looking at an older version; it cannot be edited.</p>}
         </div>
         <div className="ml-auto flex flex-wrap gap-2">
+          <Link className="btn-primary" to={`/mechanisms/${d.id}/workbench`}>
+            Workbench
+          </Link>
           <Link className="btn-quiet" to={`/mechanisms/${d.id}/history`}>
             History
           </Link>
