@@ -23,7 +23,9 @@ import { loadMechanismDocument } from "~/compute/mechanism-source.server";
 import { RunCreateSchema, cancelRun, readableRun, startRun } from "~/compute/run-api.server";
 import { PositionsSchema, PresetSchema, layoutPositions, presetsOf, saveLayout, savePreset } from "~/compute/workbench-state.server";
 import { getDb } from "../../db/client.server";
-import { getMechanismRow, owned } from "../../db/access/mechanisms.server";
+import { getMechanism, getMechanismRow, owned } from "../../db/access/mechanisms.server";
+import { applyGraphEdit, graphEditFailure } from "~/compute/graph-edit.server";
+import { AddStepControl, StepEditPanel, type EntryInfo } from "~/components/workbench/GraphEditing";
 import { listRuns } from "../../db/access/runs.server";
 import { NotFoundError } from "../../db/access/library-errors";
 
@@ -49,6 +51,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const loaded = await loadMechanismDocument(getDb(), user, id, v);
   if (!loaded.ok) throw new Response(loaded.message, { status: loaded.status });
   const runs = await listRuns(getDb(), user, { mechanismId: id, limit: 20 });
+  const canWrite = can(user, { do: "mechanism.write", object: owned(row) });
+  // Which steps are pinned library versions (and which have a newer approved one), for the side panel.
+  const detail = await getMechanism(getDb(), user, id, loaded.version);
+  const entries: Record<string, EntryInfo> = Object.fromEntries(
+    detail.resolved.steps.map((s) => [s.key, { kind: s.kind, stepId: s.stepId ?? null, versionNumber: s.versionNumber ?? null, status: s.status ?? null, update: loaded.version === row.current_version ? (detail.updates[s.key]?.number ?? null) : null }]),
+  );
+  const editable = canWrite && loaded.version === row.current_version;
+  const allSpecies: Array<{ id: number; label: string; formula: string | null }> = editable ? await getDb()("species").select("id", "label", "formula").orderBy("label").limit(3000) : [];
   return {
     id,
     name: row.name,
@@ -57,7 +67,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     doc: loaded.document,
     positions: layoutPositions(row.layout),
     presets: presetsOf(row.condition_presets),
-    canWrite: can(user, { do: "mechanism.write", object: owned(row) }),
+    canWrite,
+    editable,
+    entries,
+    allSpecies,
     canRun: can(user, { do: "run.create", object: owned(row) }),
     runs: runs.map((r) => ({ id: r.id, name: r.name, status: r.status, version: r.mechanismVersion, createdAt: r.createdAt.toISOString() })),
   };
@@ -70,6 +83,20 @@ export async function action({ request, params }: Route.ActionArgs) {
   const db = getDb();
   const id = Number(params.id);
   const intent = String(form.get("intent"));
+  if (intent === "graph-edit") {
+    try {
+      let raw: unknown;
+      try {
+        raw = JSON.parse(String(form.get("payload") ?? ""));
+      } catch {
+        raw = null;
+      }
+      const r = await applyGraphEdit(db, user, id, raw);
+      return { intent, ok: true as const, version: r.version };
+    } catch (e) {
+      return graphEditFailure(e);
+    }
+  }
   try {
     if (intent === "layout") {
       const p = PositionsSchema.safeParse(JSON.parse(String(form.get("positions") ?? "{}")));
@@ -203,12 +230,18 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
 
       <section className="grid gap-4 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="panel">
-          <h2 className="mb-2 font-semibold">Graph</h2>
+          <div className="mb-2 flex items-center gap-2">
+            <h2 className="font-semibold">Graph</h2>
+            {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={T} />}
+          </div>
           <MechanismGraph doc={L.doc} numbers={numbers} saved={saved} selected={selected} onSelect={setSelected} onPositions={L.canWrite ? savePositions : undefined} />
           <p className="mt-1 text-xs text-ink-500">
             Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
           </p>
-          {selected && <StepPanel id={selected} doc={L.doc} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
+          {selected && L.editable && L.entries[selected] && (
+            <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} />
+          )}
+          {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
         </div>
         <div className="panel space-y-3">
           <h2 className="font-semibold">Run</h2>
