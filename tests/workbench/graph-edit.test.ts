@@ -56,6 +56,20 @@ afterAll(async () => {
 });
 
 describe("workbench graph edits", () => {
+  it("the loader offers editing to the owner only, with pinned versions for the side panel", async () => {
+    const wb = await import("../../app/routes/mechanisms.$id.workbench");
+    const load = async () => (await wb.loader({ request: new Request(`http://app.test/mechanisms/${mechId}/workbench`), params: { id: String(mechId) }, context: {} } as never)) as Awaited<ReturnType<typeof wb.loader>>;
+    who.user = users.author;
+    const mine = await load();
+    expect(mine.editable).toBe(true);
+    expect(Object.values(mine.entries).some((e) => e.kind === "library" && e.versionNumber! > 0)).toBe(true);
+    expect(mine.allSpecies.length).toBeGreaterThan(0);
+    who.user = users.viewer;
+    const theirs = await load();
+    expect(theirs.editable).toBe(false);
+    expect(theirs.allSpecies).toEqual([]);
+  });
+
   it("the owner adds a pinned library step and a local step, and edits a barrier", async () => {
     who.user = users.author;
     const base = await current();

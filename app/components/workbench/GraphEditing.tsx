@@ -10,7 +10,7 @@
  * T in K; k in (mol/L)^(1−m)·s⁻¹.
  */
 import { useEffect, useMemo, useState, type FormEvent } from "react";
-import { useFetcher } from "react-router";
+import { useFetcher, useParams } from "react-router";
 import { CsrfInput } from "../CsrfInput";
 import { StepSchema, type DocumentBarrier, type DocumentStep, type MechanismDocument } from "../../../solver/exchange-format";
 import { stepNumbers } from "./step-rates";
@@ -115,6 +115,7 @@ function LiveK({ doc, step, T }: { doc: MechanismDocument; step: DocumentStep | 
 
 function SaveEdit({ edit, baseVersion, defaultMessage, label, validate }: { edit: GraphEdit | null; baseVersion: number; defaultMessage: string; label: string; validate?: () => string | null }) {
   const fetcher = useFetcher<Answer>();
+  const mechanismId = useParams().id;
   const [message, setMessage] = useState(defaultMessage);
   const [error, setError] = useState("");
   const payload = JSON.stringify({ edit, message, baseVersion });
@@ -150,7 +151,11 @@ function SaveEdit({ edit, baseVersion, defaultMessage, label, validate }: { edit
           <p>{a.message}</p>
           {a.conflict && (
             <p className="mt-1">
-              Newer version: v{a.conflict.version} by {a.conflict.author ?? "someone"} at {a.conflict.at.slice(0, 16).replace("T", " ")} UTC — “{a.conflict.message}”. Your input is still here; reload the workbench to work on the newer version.
+              Newer version: v{a.conflict.version} by {a.conflict.author ?? "someone"} at {a.conflict.at.slice(0, 16).replace("T", " ")} UTC — “{a.conflict.message}”. Your input is still here;{" "}
+              <a className="underline" href={`/mechanisms/${mechanismId}/workbench`} target="_blank" rel="noreferrer">
+                open the newer version in a new tab
+              </a>{" "}
+              to compare, then reload to apply it again.
             </p>
           )}
         </div>
