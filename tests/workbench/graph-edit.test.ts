@@ -70,6 +70,20 @@ describe("workbench graph edits", () => {
     expect(theirs.allSpecies).toEqual([]);
   });
 
+  it("a pinned step moves to its newer approved version", async () => {
+    who.user = users.author;
+    const { getMechanism } = await import("../../db/access/mechanisms.server");
+    const d = await getMechanism(t.db, users.author, mechId);
+    const [key, offer] = Object.entries(d.updates)[0];
+    const base = await current();
+    const r = await edit({ edit: { op: "use-update", key }, message: "Use the newer approved version.", baseVersion: base });
+    expect(r.status).toBe(200);
+    const snap = await snapshot(base + 1);
+    expect(snap.steps.find((e: { key: string }) => e.key === key).stepVersionId).toBe(offer.stepVersionId);
+    const again = await edit({ edit: { op: "use-update", key }, message: "again", baseVersion: base + 1 });
+    expect(again.status).toBe(400);
+  });
+
   it("the owner adds a pinned library step and a local step, and edits a barrier", async () => {
     who.user = users.author;
     const base = await current();
