@@ -40,6 +40,7 @@ import {
   updateMechanism,
 } from "../../db/access/mechanisms.server";
 import { createSpecies, getSpecies, listSpecies } from "../../db/access/species.server";
+import { isLockConflict } from "../../db/access/transactions.server";
 import { mechanismToText } from "../../solver/exchange-format";
 import { SOURCE_TYPES, STEP_STATUSES } from "../components/library/step-schema";
 import { notifyFork, notifyProposal } from "./library-mail.server";
@@ -58,6 +59,9 @@ export function apiFailure(e: unknown): Response {
     });
   }
   if (e instanceof Forbidden) return apiError(e.signedIn ? 403 : 401, e.signedIn ? "forbidden" : "unauthorized", e.message);
+  if (isLockConflict(e)) {
+    return apiError(503, "busy", "Other saves held the same rows and this one was not stored; send it again.", undefined, { "Retry-After": "1" });
+  }
   throw e;
 }
 

@@ -35,6 +35,7 @@ import { hydrateVersion, newerApprovedVersions, visibleVersionId, type StepRow }
 import { diffMechanisms, type MechanismDiff, type ResolvedEntry, type ResolvedMechanism, type ResolvedSpecies } from "./mechanism-diff";
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
 import { audit } from "./audit.server";
+import { retryingTransaction } from "./transactions.server";
 
 /** Largest import file accepted: 2 MB (2 097 152 bytes). */
 export const IMPORT_LIMIT_BYTES = 2_097_152;
@@ -303,7 +304,7 @@ export async function createMechanism(
     });
     return { id, version: 1 };
   };
-  return db.isTransaction ? run(db) : db.transaction(run);
+  return db.isTransaction ? run(db) : retryingTransaction(db, run);
 }
 
 async function lockMechanism(trx: Knex, id: number): Promise<MechanismRow> {
@@ -315,7 +316,7 @@ async function lockMechanism(trx: Knex, id: number): Promise<MechanismRow> {
 /** Saves a new version. `baseVersion` must be the current one, else ConflictError and nothing is written. */
 export async function updateMechanism(db: Knex, actor: Actor, id: number, input: unknown): Promise<{ version: number }> {
   const body = parseBody(MechanismUpdateSchema, input);
-  return db.transaction(async (trx) => {
+  return retryingTransaction(db, async (trx) => {
     const m = await lockMechanism(trx, id);
     if (!can(actor, { do: "mechanism.read", object: owned(m) })) throw new NotFoundError("No such mechanism.");
     assertCan(actor, { do: "mechanism.write", object: owned(m) }, "Only the owner can change this mechanism; fork it to make your own copy.");
@@ -353,7 +354,7 @@ export async function updateMechanism(db: Knex, actor: Actor, id: number, input:
 }
 
 export async function deleteMechanism(db: Knex, actor: Actor, id: number): Promise<void> {
-  await db.transaction(async (trx) => {
+  await retryingTransaction(db, async (trx) => {
     const m = await lockMechanism(trx, id);
     if (!can(actor, { do: "mechanism.read", object: owned(m) })) throw new NotFoundError("No such mechanism.");
     assertCan(actor, { do: "mechanism.delete", object: owned(m) }, "Only the owner can delete this mechanism.");
@@ -366,7 +367,7 @@ export async function deleteMechanism(db: Knex, actor: Actor, id: number): Promi
 /** Copies a version of a mechanism the actor can read into the actor's space, keeping lineage. */
 export async function forkMechanism(db: Knex, actor: Actor, parentId: number, input: unknown = {}): Promise<{ id: number; version: number; parentOwnerId: number }> {
   const body = parseBody(ForkSchema, input ?? {});
-  return db.transaction(async (trx) => {
+  return retryingTransaction(db, async (trx) => {
     const parent = (await trx("mechanisms").where({ id: parentId }).first()) as MechanismRow | undefined;
     if (!parent || !can(actor, { do: "mechanism.read", object: owned(parent) })) throw new NotFoundError("No such mechanism.");
     assertCan(actor, { do: "mechanism.fork", object: owned(parent) }, "Viewers cannot fork; ask an admin for the author role.");
@@ -625,7 +626,7 @@ export async function importMechanism(
     const [p, m] = Object.entries(fields)[0];
     throw new InputError(`${p}: ${m}`, fields);
   }
-  return db.transaction(async (trx) => {
+  return retryingTransaction(db, async (trx) => {
     const species: SnapshotSpecies[] = [];
     for (const s of doc.species) {
       const label = s.label ?? s.id;
