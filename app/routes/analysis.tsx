@@ -4,7 +4,7 @@
  * with standard errors (engine regression, solver/regression.ts).
  */
 import { useRef, useState } from "react";
-import { Form, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/analysis";
 import {
   DEFAULT_SETTINGS,
@@ -193,6 +193,23 @@ export default function AnalysisPage({ actionData }: Route.ComponentProps) {
   );
 }
 
+/** The step editor, prefilled with the Eyring parameters, their range and provenance. */
+function libraryStepLink(a: ActivationAnalysis, settings: KineticsSettings): string {
+  const e = a.eyring;
+  const Ts = a.rows.map((p) => p.TK);
+  const q = new URLSearchParams({
+    from: "activation-analysis",
+    dH: sig(e.dH.value * kJ, 6),
+    dS: sig(e.dS.value, 6),
+    tmin: sig(Math.min(...Ts), 6),
+    tmax: sig(Math.max(...Ts), 6),
+    unc: sig(e.dH.se * kJ, 3),
+    method: `Eyring regression of ${a.rows.length} k(T) points`,
+    notes: `ΔH‡ = ${plusMinus(e.dH.value, e.dH.se, kJ)} kJ/mol, ΔS‡ = ${plusMinus(e.dS.value, e.dS.se)} J/(mol·K) (± standard error), r² = ${e.r2.toFixed(5)}, molecularity ${settings.molecularity}, κ = ${settings.kappa}, ${Math.min(...Ts).toFixed(2)}–${Math.max(...Ts).toFixed(2)} K.`,
+  });
+  return `/library/new?${q.toString()}`;
+}
+
 function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; settings: KineticsSettings; eyRef: React.RefObject<SVGSVGElement | null>; arRef: React.RefObject<SVGSVGElement | null> }) {
   const e = a.eyring;
   const r = a.arrhenius;
@@ -219,6 +236,9 @@ function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; setting
             Standard state {settings.molecularity > 1 ? "1 mol/L (k in mol/L units)" : "— (unimolecular: none needed)"}; κ = {settings.kappa}.
             ΔG‡ at {sig(a.Tref, 5)} K = {sig(TrefC, 5)} °C.
           </p>
+          <Link className="btn-quiet mt-3" to={libraryStepLink(a, settings)} data-testid="save-as-step">
+            Save as a library step…
+          </Link>
         </div>
         <div className="panel" data-testid="arrhenius-panel">
           <h2 className="font-semibold">Arrhenius</h2>

@@ -8,7 +8,7 @@ import { getDb } from "../../db/client.server";
 import { editorAction, editorSpecies } from "~/components/library/editor-actions.server";
 import { loaderFailure } from "~/components/library/route-helpers.server";
 import { StepEditor } from "~/components/library/StepEditor";
-import { emptyForm } from "~/components/library/step-form";
+import { emptyForm, type StepFormState } from "~/components/library/step-form";
 
 export function meta(): Route.MetaDescriptors {
   return [{ title: "New step · Saddlebook" }];
@@ -21,7 +21,38 @@ export async function loader({ request }: Route.LoaderArgs) {
   } catch (e) {
     loaderFailure(e);
   }
-  return { species: await editorSpecies(getDb()) };
+  return { species: await editorSpecies(getDb()), initial: prefilled(new URL(request.url).searchParams) };
+}
+
+/**
+ * A new step can start from an activation-parameter analysis (/analysis): ΔH‡ (kJ/mol),
+ * ΔS‡ (J/(mol·K)), the measured temperature range (K), the standard error of ΔH‡ as the
+ * uncertainty, and a method note arrive as query parameters. Anything not a finite
+ * number is ignored; the reaction itself is chosen here.
+ */
+function prefilled(q: URLSearchParams): StepFormState {
+  const f = emptyForm();
+  if (q.get("from") !== "activation-analysis") return f;
+  const n = (key: string) => {
+    const v = Number(q.get(key));
+    return q.get(key) !== null && q.get(key) !== "" && Number.isFinite(v) ? String(v) : "";
+  };
+  const text = (key: string, max: number) => (q.get(key) ?? "").slice(0, max);
+  return {
+    ...f,
+    form: "dHdS",
+    eu: "kJ/mol",
+    su: "J/(mol K)",
+    tu: "K",
+    dH: n("dH"),
+    dS: n("dS"),
+    tmin: n("tmin"),
+    tmax: n("tmax"),
+    unc: n("unc"),
+    source: "measured",
+    method: text("method", 200),
+    notes: text("notes", 2000),
+  };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -44,7 +75,7 @@ export default function NewStep({ loaderData }: Route.ComponentProps) {
       </p>
       <h1 className="text-2xl font-semibold tracking-tight">New step</h1>
       <p className="text-sm text-ink-700">It starts as your draft; propose it when it is ready for the curators.</p>
-      <StepEditor species={loaderData.species} initial={emptyForm()} serverErrors={serverErrors} submitLabel="Save draft" />
+      <StepEditor species={loaderData.species} initial={loaderData.initial} serverErrors={serverErrors} submitLabel="Save draft" />
     </div>
   );
 }

@@ -29,7 +29,28 @@ describe.skipIf(!hasApp())("activation parameters in the browser", () => {
     await b.screenshot("workbench-analysis");
   });
 
+  it("starts a library step from the fitted parameters", async () => {
+    await b.page.goto(appUrl() + "/sign-in");
+    await b.page.fill('input[name="email"]', "author@saddlebook.test");
+    await b.page.fill('input[name="password"]', "saddlebook-demo");
+    await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
+    await b.page.goto(appUrl() + "/analysis");
+    const table = ["T/K, k/s-1", ...[290, 300, 310, 320, 330].map((T) => `${T}, ${k(T).toExponential(6)}`)].join("\n");
+    await b.page.fill("#table", table);
+    await b.page.selectOption('select[name="temperatureUnit"]', "K");
+    await b.page.click('button:has-text("Fit Eyring and Arrhenius")');
+    await b.page.getByTestId("save-as-step").waitFor();
+    await Promise.all([b.page.waitForURL((u) => u.pathname === "/library/new"), b.page.getByTestId("save-as-step").click()]);
+    await b.page.locator("#f-dH").waitFor();
+    expect(Number(await b.page.inputValue("#f-dH"))).toBeCloseTo(75, 3);
+    expect(Number(await b.page.inputValue("#f-dS"))).toBeCloseTo(-40, 2);
+    expect(Number(await b.page.inputValue("#f-tmin"))).toBe(290);
+    expect(Number(await b.page.inputValue("#f-tmax"))).toBe(330);
+    expect(await b.page.inputValue("#f-method")).toContain("Eyring regression of 5");
+  });
+
   it("names the line of a bad row and keeps the input", async () => {
+    await b.page.goto(appUrl() + "/analysis");
     await b.page.fill("#table", "300, 1e-3\n310, 2e-3\n320, two\n330, 8e-3");
     await b.page.selectOption('select[name="temperatureUnit"]', "K");
     await b.page.click('button:has-text("Fit Eyring and Arrhenius")');
