@@ -11,7 +11,7 @@
 import type { Knex } from "knex";
 import { z } from "zod";
 import { apiError } from "./errors.server";
-import { jsonResponse, readJsonBody } from "./json-request.server";
+import { JSON_BODY_LIMIT_BYTES, jsonResponse, readJsonBody } from "./json-request.server";
 import { Forbidden, type Actor } from "../auth/policy.server";
 import { ConflictError, InputError, NotFoundError } from "../../db/access/library-errors";
 import {
@@ -375,7 +375,12 @@ export function mechanismDiff(db: Knex, actor: Actor | null, request: Request, r
 
 export function mechanismFork(db: Knex, actor: Actor, request: Request, rawId: string | undefined): Promise<Response> {
   return guard(async () => {
-    const text = await request.text();
+    // The body is optional (name, version); it gets the same 1 MB limit as every JSON body.
+    const declared = Number(request.headers.get("content-length") ?? 0);
+    const text = declared > JSON_BODY_LIMIT_BYTES ? null : await request.text();
+    if (text === null || new TextEncoder().encode(text).length > JSON_BODY_LIMIT_BYTES) {
+      return apiError(413, "body_too_large", `The request body is larger than the limit of ${JSON_BODY_LIMIT_BYTES} bytes (1 MB).`);
+    }
     const input = text.trim() ? safeJson(text) : {};
     const r = await forkMechanism(db, actor, idParam(rawId), input);
     await notifyFork(db, r.id).catch(() => {});

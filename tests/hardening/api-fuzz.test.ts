@@ -217,10 +217,7 @@ describe("library, mechanism and dataset API bodies under bad input", () => {
       expect(await probe(n, '{"a":'.repeat(20_000) + "1" + "}".repeat(20_000))).toBeGreaterThanOrEqual(400);
       const limit = n === "mechanismImport" ? IMPORT_LIMIT_BYTES : n === "datasetCreate" ? 5_100_000 : 1_048_576;
       const big = JSON.stringify({ ...(bases[n] as object), pad: "x".repeat(limit + 10) });
-      // The fork body is read without the 1 MB limit (its only fields are a name and a version),
-      // so an oversized one is refused for its unknown field (400) rather than its size (413).
-      if (n === "mechanismFork") expect(await probe(n, big)).toBe(400);
-      else expect(await probe(n, big)).toBe(413);
+      expect(await probe(n, big)).toBe(413);
     }, 120_000);
   }
 
