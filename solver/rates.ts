@@ -163,7 +163,9 @@ export function convertBarrier(step: StepKinetics, T: number, path = "step"): Re
   // ΔH‡ in the target state from the local slope: Ea − RT²·dlnκ_W/dT = ΔH‡ + RT − (1−m)·g·RT
   const g = standardStateTExponent(target);
   const dH = R_GAS * T * T * (dlnk - dlnKappaW) - RT - (1 - m) * g * RT;
-  const dS = (dH - dG) / T;
+  // ΔH‡ and ΔG‡ come from separate expressions; a difference at rounding level is ΔS‡ = 0.
+  const dHG = dH - dG;
+  const dS = Math.abs(dHG) <= 1e-12 * Math.max(Math.abs(dH), Math.abs(dG), 1) ? 0 : dHG / T;
 
   const src = c.sourceStandardState;
   const dGSource = src === null ? null : dGIn(src);

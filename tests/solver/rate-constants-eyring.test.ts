@@ -322,3 +322,12 @@ describe("bad input → typed errors", () => {
     expect(c.notes.some((n) => n.includes("reported as 0"))).toBe(true);
   });
 });
+
+describe("derived forms at rounding level", () => {
+  // A ΔG‡-only barrier has ΔH‡ = ΔG‡ by construction, so ΔS‡ is exactly zero at its
+  // reference temperature (definition ΔG‡ = ΔH‡ − TΔS‡); rounding must not show as 1e-14.
+  it("gives ΔS‡ = 0 for a ΔG‡-only bimolecular step at its reference temperature", () => {
+    const conv = get(convertBarrier(step({ form: "dG", dG: 55.4e3, Tref: 298.15, standardState: "1M" }, 2), 298.15));
+    expect(conv.dS).toBe(0);
+  });
+});
