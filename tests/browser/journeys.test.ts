@@ -6,14 +6,8 @@
 //   (d) a second author forks the first author's mechanism, changes it, runs parent and fork
 //       and compares the two runs.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
-async function signIn(b: BrowserSession, email: string) {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in"), { timeout: 60_000 }), b.page.click('button[name="intent"][value="password"]')]);
-}
 
 /** Starts a run from a mechanism's workbench, waits for it, and returns the run id. */
 async function runFromWorkbench(b: BrowserSession, mechanismId: number): Promise<number> {
@@ -39,7 +33,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
   it("(a) an author builds a mechanism step by step and saves it", async () => {
     b = await openBrowser();
     b.page.setDefaultTimeout(60_000);
-    await signIn(b, "author@saddlebook.test");
+    await signIn(b, "author@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
     await page.goto(appUrl() + "/mechanisms");
     await page.getByLabel("Name", { exact: true }).fill("Journey-built mechanism (illustrative)");
@@ -77,7 +71,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
   it("(b) a viewer searches the shared library and opens a step", async () => {
     b = await openBrowser();
     b.page.setDefaultTimeout(60_000);
-    await signIn(b, "viewer@saddlebook.test");
+    await signIn(b, "viewer@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
     await page.goto(appUrl() + "/library");
     await page.getByLabel(/Search species/).fill("ketene traping");
@@ -96,7 +90,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
   it("(c) an author simulates a mechanism and reads the results", async () => {
     b = await openBrowser();
     b.page.setDefaultTimeout(60_000);
-    await signIn(b, "author@saddlebook.test");
+    await signIn(b, "author@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
     const me = (await (await page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
     const list = (await (await page.request.get(appUrl() + "/api/v1/mechanisms?mine=1")).json()) as { items: { id: number; owner_id: number }[] };
@@ -116,7 +110,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
   it("(d) a second author forks the first author's mechanism and compares runs of parent and fork", async () => {
     b = await openBrowser();
     b.page.setDefaultTimeout(60_000);
-    await signIn(b, "author2@saddlebook.test");
+    await signIn(b, "author2@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
     await page.goto(appUrl() + "/mechanisms");
     await page.getByRole("link", { name: /alcohol series/ }).first().click();

@@ -2,15 +2,8 @@
 // search the library and open a step; build a mechanism from two library steps and one new
 // step; fork a colleague's mechanism as another demo user and see the diff.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
-async function signIn(b: BrowserSession, email: string) {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await b.page.getByRole("button", { name: "Sign in", exact: true }).click();
-  await b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
-}
 
 // Journeys take several page loads each; on a busy machine they need more than the default 30 s.
 const JOURNEY_MS = 120_000;

@@ -2,7 +2,7 @@
 // and ΔS‡ = −40 J/(mol K) by the Eyring equation (CODATA 2018 constants) gives those values back
 // with both plots drawn; a bad line is named by its number and the text is kept.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, signIn, type BrowserSession } from "../support/browser";
 
 const KB = 1.380649e-23, H = 6.62607015e-34, R = KB * 6.02214076e23;
 const k = (T: number) => ((KB * T) / H) * Math.exp(-40 / R) * Math.exp(-75e3 / (R * T));
@@ -30,10 +30,7 @@ describe.skipIf(!hasApp())("activation parameters in the browser", () => {
   });
 
   it("starts a library step from the fitted parameters", async () => {
-    await b.page.goto(appUrl() + "/sign-in");
-    await b.page.fill('input[name="email"]', "author@saddlebook.test");
-    await b.page.fill('input[name="password"]', "saddlebook-demo");
-    await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
+    await signIn(b, "author@saddlebook.test");
     await b.page.goto(appUrl() + "/analysis");
     const table = ["T/K, k/s-1", ...[290, 300, 310, 320, 330].map((T) => `${T}, ${k(T).toExponential(6)}`)].join("\n");
     await b.page.fill("#table", table);

@@ -3,22 +3,16 @@
 // to data generated from a known barrier (ΔG‡ = 85 kJ/mol, A → B, 25 °C, σ = 2 mmol/L noise)
 // comes back within its standard error, starting from a model at 83 kJ/mol.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 import { firstOrder } from "../workbench/fixtures/mechanisms";
 import { firstOrderCsv } from "../workbench/fixtures/synthetic-data";
 
-async function signIn(b: BrowserSession, email = "author2@saddlebook.test") {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
-}
 
 describe.skipIf(!hasApp())("measured data and fits in the browser", () => {
   let b: BrowserSession;
   beforeAll(async () => {
     b = await openBrowser();
-    await signIn(b);
+    await signIn(b, "author2@saddlebook.test");
   });
   afterAll(async () => {
     await b?.close();

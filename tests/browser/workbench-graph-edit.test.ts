@@ -3,21 +3,15 @@
 // clicks a step node and changes its barrier in the side panel — k updates while typing (computed
 // in the browser) and saving gives a new mechanism version each time.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
-async function signIn(b: BrowserSession, email = "author@saddlebook.test") {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
-}
 
 describe.skipIf(!hasApp())("workbench graph editing in the browser", () => {
   let b: BrowserSession;
   let mechanismId = 0;
   beforeAll(async () => {
     b = await openBrowser();
-    await signIn(b);
+    await signIn(b, "author@saddlebook.test");
     const me = (await (await b.page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
     const list = (await (await b.page.request.get(appUrl() + "/api/v1/mechanisms")).json()) as { items: { id: number; owner_id: number }[] };
     const mine = list.items.filter((m) => m.owner_id === me.id);

@@ -3,14 +3,8 @@
 // barrier — Eyring), a run starts from the conditions form, reports progress and finishes, and
 // its results page draws the plot; a conditions preset is saved with the mechanism.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
-async function signIn(b: BrowserSession, email = "author@saddlebook.test") {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
-}
 
 const kOf = (text: string) => Number(text.trim().split(/\s+/)[0]);
 
@@ -19,7 +13,7 @@ describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
   let mechanismId = 0;
   beforeAll(async () => {
     b = await openBrowser();
-    await signIn(b);
+    await signIn(b, "author@saddlebook.test");
     // a mechanism of the demo scenario that this author owns (so the layout and presets are theirs to save)
     const me = (await (await b.page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
     const list = (await (await b.page.request.get(appUrl() + "/api/v1/mechanisms")).json()) as { items: { id: number; owner_id: number }[] };

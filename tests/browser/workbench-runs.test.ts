@@ -3,17 +3,11 @@
 // compare the two. A → B first order: t½ = ln 2 / k with k from the Eyring equation (CODATA 2018).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readFileSync } from "node:fs";
-import { appUrl, hasApp, openBrowser, type BrowserSession } from "../support/browser";
+import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 import { firstOrder } from "../workbench/fixtures/mechanisms";
 
 const KB = 1.380649e-23, H = 6.62607015e-34, R = KB * 6.02214076e23; // CODATA 2018 exact
 
-export async function signIn(b: BrowserSession, email = "author@saddlebook.test") {
-  await b.page.goto(appUrl() + "/sign-in");
-  await b.page.fill('input[name="email"]', email);
-  await b.page.fill('input[name="password"]', "saddlebook-demo");
-  await Promise.all([b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in")), b.page.click('button[name="intent"][value="password"]')]);
-}
 
 async function startRun(b: BrowserSession, name: string, celsius: string) {
   await b.page.goto(appUrl() + "/runs/new");
@@ -38,7 +32,7 @@ describe.skipIf(!hasApp())("runs in the browser", () => {
   let b: BrowserSession;
   beforeAll(async () => {
     b = await openBrowser();
-    await signIn(b);
+    await signIn(b, "author@saddlebook.test");
   });
   afterAll(async () => {
     await b?.close();

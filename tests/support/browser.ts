@@ -6,6 +6,7 @@ import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
+import { DEMO_PASSWORD } from "../../db/seeds/demo-identities";
 
 export const appUrl = (): string => {
   const url = process.env.APP_URL;
@@ -15,6 +16,20 @@ export const appUrl = (): string => {
 
 /** True when the served app is available (npm test); browser suites skip otherwise. */
 export const hasApp = (): boolean => !!process.env.APP_URL;
+
+/**
+ * Signs a demo identity in through the e-mail and password form (password of every
+ * demo identity: DEMO_PASSWORD) and waits until the app has left the sign-in page.
+ */
+export async function signIn(b: BrowserSession, email: string, opts: { timeout?: number } = {}): Promise<void> {
+  await b.page.goto(appUrl() + "/sign-in");
+  await b.page.fill('input[name="email"]', email);
+  await b.page.fill('input[name="password"]', DEMO_PASSWORD);
+  await Promise.all([
+    b.page.waitForURL((u) => !u.pathname.startsWith("/sign-in"), opts.timeout ? { timeout: opts.timeout } : undefined),
+    b.page.click('button[name="intent"][value="password"]'),
+  ]);
+}
 
 export interface BrowserSession {
   context: BrowserContext;
