@@ -49,8 +49,11 @@ describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
     await b.page.goto(appUrl() + `/mechanisms/${mechanismId}/workbench`);
     await b.page.getByLabel("Temperature value").fill("40");
     await b.page.getByLabel("Preset name").fill("40 °C screen");
-    await b.page.getByRole("button", { name: "Save as preset" }).click();
-    await b.page.waitForLoadState("networkidle");
+    // Wait for the save itself: "network idle" can be reached before the post has started.
+    await Promise.all([
+      b.page.waitForResponse((r) => r.request().method() === "POST" && r.url().includes(`/mechanisms/${mechanismId}/workbench`)),
+      b.page.getByRole("button", { name: "Save as preset" }).click(),
+    ]);
     await b.page.reload();
     await expect.poll(() => b.page.locator("option", { hasText: "40 °C screen" }).count()).toBe(1);
     expect(b.problems).toEqual([]);
