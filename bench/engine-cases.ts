@@ -6,7 +6,7 @@
  * sparse for the networks) on the same problems and tolerances.
  *
  * References: Robertson and HIRES from the Bari IVP test set (Mazzia & Magherini), values as in
- * tests/solver/integrator-reference.test.ts; networks: our own RODAS4 at rtol 1e-11, atol 1e-20,
+ * tests/solver/reference-problems.ts (shared with the integrator tests); networks: our own RODAS4 at rtol 1e-11, atol 1e-20,
  * computed once and cached in bench/results/ (a self-convergence reference; the scipy script
  * reports its error against the same reference, which cross-checks it).
  *
@@ -20,76 +20,17 @@ import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { compileMechanism } from "../solver/model.ts";
-import type { OdeProblem } from "../solver/ode-problem.ts";
 import { integrateStiff } from "../solver/rosenbrock.ts";
 import { simulate } from "../solver/simulate.ts";
 import { benchRates } from "./rates.bench.ts";
 import { NETWORK_GENERATOR_VERSION, networkToJson, stiffNetwork } from "./stiff-network.ts";
+import { HIRES_REF, ROBERTSON_REF_1E11 as ROBER_REF, hires, robertson } from "../tests/solver/reference-problems.ts";
 import type { BenchCase, BenchSuite } from "./types.ts";
 
 const RTOL = 1e-6;
 /** Per-run wall budget of the network cases, ms: a case that needs more is reported as not finished. */
 const NETWORK_BUDGET_MS = 30_000;
 const SCIPY_TIMEOUT_MS = 240_000;
-
-function robertson(): OdeProblem {
-  return {
-    n: 3,
-    autonomous: true,
-    rhs(_t, y, dy) {
-      dy[0] = -0.04 * y[0] + 1e4 * y[1] * y[2];
-      dy[2] = 3e7 * y[1] * y[1];
-      dy[1] = -dy[0] - dy[2];
-    },
-    jacobian: {
-      kind: "dense",
-      fill(_t, y, J) {
-        J[0] = -0.04; J[1] = 1e4 * y[2]; J[2] = 1e4 * y[1];
-        J[3] = 0.04; J[4] = -1e4 * y[2] - 6e7 * y[1]; J[5] = -1e4 * y[1];
-        J[6] = 0; J[7] = 6e7 * y[1]; J[8] = 0;
-      },
-    },
-  };
-}
-
-function hires(): OdeProblem {
-  return {
-    n: 8,
-    autonomous: true,
-    rhs(_t, y, f) {
-      f[0] = -1.71 * y[0] + 0.43 * y[1] + 8.32 * y[2] + 0.0007;
-      f[1] = 1.71 * y[0] - 8.75 * y[1];
-      f[2] = -10.03 * y[2] + 0.43 * y[3] + 0.035 * y[4];
-      f[3] = 8.32 * y[1] + 1.71 * y[2] - 1.12 * y[3];
-      f[4] = -1.745 * y[4] + 0.43 * y[5] + 0.43 * y[6];
-      f[5] = -280 * y[5] * y[7] + 0.69 * y[3] + 1.71 * y[4] - 0.43 * y[5] + 0.69 * y[6];
-      f[6] = 280 * y[5] * y[7] - 1.81 * y[6];
-      f[7] = -f[6];
-    },
-    jacobian: {
-      kind: "dense",
-      fill(_t, y, J) {
-        J.fill(0);
-        const s = (i: number, j: number, v: number) => (J[i * 8 + j] = v);
-        s(0, 0, -1.71); s(0, 1, 0.43); s(0, 2, 8.32);
-        s(1, 0, 1.71); s(1, 1, -8.75);
-        s(2, 2, -10.03); s(2, 3, 0.43); s(2, 4, 0.035);
-        s(3, 1, 8.32); s(3, 2, 1.71); s(3, 3, -1.12);
-        s(4, 4, -1.745); s(4, 5, 0.43); s(4, 6, 0.43);
-        s(5, 3, 0.69); s(5, 4, 1.71); s(5, 5, -0.43 - 280 * y[7]); s(5, 6, 0.69); s(5, 7, -280 * y[5]);
-        s(6, 5, 280 * y[7]); s(6, 6, -1.81); s(6, 7, 280 * y[5]);
-        s(7, 5, -280 * y[7]); s(7, 6, 1.81); s(7, 7, -280 * y[5]);
-      },
-    },
-  };
-}
-
-// Bari IVP test set references (see tests/solver/integrator-reference.test.ts)
-const ROBER_REF = [0.2083340149701255e-7, 0.8333360770334713e-13, 0.999999979166505];
-const HIRES_REF = [
-  0.7371312573325668e-3, 0.1442485726316185e-3, 0.5888729740967575e-4, 0.1175651343283149e-2, 0.2386356198831331e-2,
-  0.6238968252742796e-2, 0.2849998395185769e-2, 0.2850001604814231e-2,
-];
 
 function maxRelError(y: ArrayLike<number>, ref: ArrayLike<number>, atol: number): number {
   let m = 0;
@@ -228,7 +169,7 @@ async function run(): Promise<BenchCase[]> {
     if (!compiled.ok) throw new Error(compiled.error.message);
     const model = compiled.value;
     const rc = Array.from({ length: model.nReactions }, (_, r) => ({ kf: () => net.kf[r], kr: () => net.kr[r] }));
-    const sim = (rtol: number, at: number, budget: number) =>
+    const sim = (rtol: number, at: number, budget: number, stiffMethod: "auto" | "rosenbrock" = "auto") =>
       simulate(model, {
         rateConstants: rc,
         temperature: { kind: "isothermal", T: 298.15 },
@@ -240,6 +181,7 @@ async function run(): Promise<BenchCase[]> {
         conservation: false,
         maxSteps: 1e6,
         maxWallMs: budget,
+        stiffMethod,
       });
     const name = `stiff network N = ${N} (${model.nReactions} reversible steps)`;
     const first = sim(RTOL, atol, NETWORK_BUDGET_MS);
@@ -251,7 +193,7 @@ async function run(): Promise<BenchCase[]> {
     const json = networkToJson(net);
     const key = `N${N}-seed${net.seed}-v${NETWORK_GENERATOR_VERSION}-${createHash("sha256").update(json).digest("hex").slice(0, 12)}`;
     const ref = networkReference(key, () => {
-      const rr = sim(1e-11, 1e-20, 20 * NETWORK_BUDGET_MS);
+      const rr = sim(1e-11, 1e-20, 20 * NETWORK_BUDGET_MS, "rosenbrock");
       return rr.ok ? rr.value.conc.map((c) => c[c.length - 1]) : null;
     });
     const yRef = ref.y;
