@@ -61,10 +61,11 @@ function counts(): { passed: number; failed: number } | null {
     const r = JSON.parse(readFileSync(reportFile, "utf8")) as {
       numPassedTests: number;
       numFailedTests: number;
-      testResults?: Array<{ status: string; assertionResults: unknown[] }>;
+      testResults?: Array<{ status: string; assertionResults: Array<{ status: string }> }>;
     };
-    // A file that fails to load has no test results of its own: count it as one failure.
-    const brokenFiles = (r.testResults ?? []).filter((f) => f.status === "failed" && f.assertionResults.length === 0).length;
+    // A file that fails outside its tests (loading, a failing beforeAll/afterAll) has no failed
+    // test of its own (its tests are skipped or absent): count it as one failure.
+    const brokenFiles = (r.testResults ?? []).filter((f) => f.status === "failed" && !f.assertionResults.some((a) => a.status === "failed")).length;
     return { passed: r.numPassedTests, failed: r.numFailedTests + brokenFiles };
   } catch {
     return null;
