@@ -1,4 +1,4 @@
-/** Starts the built app (react-router-serve) or Vite's dev server as a child process. */
+/** Starts the built app (scripts/serve.ts) or Vite's dev server as a child process. */
 import { spawn, type ChildProcess } from "node:child_process";
 import { resolve } from "node:path";
 import { projectRoot } from "./env";
@@ -17,8 +17,9 @@ export async function startAppServer(opts: {
   quiet?: boolean;
 }): Promise<AppServer> {
   const host = "127.0.0.1";
-  const bin = resolve(projectRoot, "node_modules/.bin", opts.dev ? "react-router" : "react-router-serve");
-  const args = opts.dev ? ["dev", "--host", host, "--port", String(opts.port), "--strictPort"] : ["build/server/index.js"];
+  // Development: Vite's server. Production: scripts/serve.ts (a supervisor and its worker processes).
+  const bin = resolve(projectRoot, "node_modules/.bin", opts.dev ? "react-router" : "tsx");
+  const args = opts.dev ? ["dev", "--host", host, "--port", String(opts.port), "--strictPort"] : ["scripts/serve.ts"];
   const child = spawn(bin, args, {
     cwd: projectRoot,
     env: {

@@ -15,7 +15,7 @@ import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
-import { claimRun, endRunWithoutResults, failInterruptedRuns, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
+import { claimRun, currentServerProcess, endRunWithoutResults, failInterruptedRuns, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
 import type { RunTaskInput, RunTaskResult } from "./run-task";
 import type { FitTaskInput, FitTaskResult } from "./fit-task";
 
@@ -65,7 +65,10 @@ export class ComputeService {
     private readonly db: Knex,
     opts: ComputeOptions = {},
   ) {
-    this.maxThreads = opts.maxThreads ?? Math.max(1, Math.min(4, availableParallelism() - 1));
+    // COMPUTE_THREADS: set by the production server's supervisor so that its workers together
+    // use about as many simulation threads as the machine has cores (scripts/serve.ts).
+    const fromEnv = Number(process.env.COMPUTE_THREADS);
+    this.maxThreads = opts.maxThreads ?? (Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : Math.max(1, Math.min(4, availableParallelism() - 1)));
     this.tickMs = opts.tickMs ?? 250;
     this.graceMs = opts.graceMs ?? 15_000;
     const file = opts.workerFile ?? defaultWorkerFile();
@@ -220,20 +223,24 @@ const KEY = Symbol.for("saddlebook.compute");
  * The process-wide compute service on the app's database. On first use, runs left queued or
  * running by an earlier server process are marked failed with the reason, so no run waits
  * forever: those created before the database's clock at that moment (one app process per
- * database, as deployed). Callers that create runs await `ready` first, so their own runs are
+ * database, or the production server's supervisor on behalf of all its workers). Callers that create runs await `ready` first, so their own runs are
  * never among them.
  */
 export function getComputeService(db: Knex): ComputeService & { ready: Promise<void> } {
   const g = globalThis as unknown as Record<symbol, (ComputeService & { ready: Promise<void> }) | undefined>;
   if (!g[KEY]) {
     const svc = new ComputeService(db) as ComputeService & { ready: Promise<void> };
-    svc.ready = db
-      .raw("SELECT NOW(3) AS t")
-      .then((r: unknown) => {
-        const rows = (Array.isArray(r) ? r[0] : r) as { t: Date }[];
-        return failInterruptedRuns(db, rows[0].t);
-      })
-      .then(() => undefined, () => undefined);
+    // In a worker of the production server its supervisor has done this before starting the
+    // workers, and does it per worker when one stops (scripts/serve.ts).
+    svc.ready = currentServerProcess()
+      ? Promise.resolve()
+      : db
+          .raw("SELECT NOW(3) AS t")
+          .then((r: unknown) => {
+            const rows = (Array.isArray(r) ? r[0] : r) as { t: Date }[];
+            return failInterruptedRuns(db, rows[0].t);
+          })
+          .then(() => undefined, () => undefined);
     g[KEY] = svc;
   }
   return g[KEY]!;

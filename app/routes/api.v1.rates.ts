@@ -12,7 +12,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed(request);
   const user = await requireApiUser(request); // token or session; a refusal is a thrown 401 JSON response
-  const limited = computeRateLimit(user.id, "rates");
+  const limited = await computeRateLimit(user.id, "rates");
   if (limited) return limited;
   return handleRates(request);
 }

@@ -113,6 +113,14 @@ export interface NewRun {
   groupId?: number | null;
 }
 
+/**
+ * The server worker process this process is, as named by its supervisor (scripts/serve.ts sets
+ * SADDLEBOOK_SERVER_PROCESS for each worker it starts); null outside such a server.
+ */
+export function currentServerProcess(): string | null {
+  return process.env.SADDLEBOOK_SERVER_PROCESS || null;
+}
+
 export async function createRun(db: Knex, r: NewRun): Promise<number> {
   const [id] = await db("runs").insert({
     owner_id: r.ownerId,
@@ -128,6 +136,7 @@ export async function createRun(db: Knex, r: NewRun): Promise<number> {
     analysis_request: r.analysisRequest ? JSON.stringify(r.analysisRequest) : null,
     t_end: r.tEnd,
     status: "queued",
+    server_process: currentServerProcess(),
   });
   return id;
 }
@@ -235,12 +244,22 @@ export async function isCancelRequested(db: Knex, id: number): Promise<boolean> 
   return !!row?.cancel_requested_at;
 }
 
+const INTERRUPTED = { status: "failed", failure_code: "interrupted", status_reason: "The server restarted while the run was in progress; start it again." } as const;
+
+/** The queued and running runs of one server worker process that stopped: failed, with the reason. */
+export async function failRunsOfServerProcess(db: Knex, serverProcess: string): Promise<number> {
+  return db("runs")
+    .where({ server_process: serverProcess })
+    .whereIn("status", ["queued", "running"])
+    .update({ ...INTERRUPTED, status_reason: "The server process running it stopped while the run was in progress; start it again.", finished_at: db.fn.now(3) });
+}
+
 /** Runs left queued or running by a server that stopped: failed, with the reason. */
 export async function failInterruptedRuns(db: Knex, olderThan: Date): Promise<number> {
   return db("runs")
     .whereIn("status", ["queued", "running"])
     .andWhere("created_at", "<", olderThan)
-    .update({ status: "failed", failure_code: "interrupted", status_reason: "The server restarted while the run was in progress; start it again.", finished_at: db.fn.now(3) });
+    .update({ ...INTERRUPTED, finished_at: db.fn.now(3) });
 }
 
 export function runAsOwned(r: Pick<RunRecord, "ownerId" | "visibility" | "groupId">): OwnedObject {

@@ -11,6 +11,7 @@ import * as m0200 from "./0200_library";
 import * as m0210 from "./0210_mechanisms";
 import * as m0300 from "./0300_workbench";
 import * as m0310 from "./0310_workbench_mechanism_links";
+import * as m0320 from "./0320_run_server_process";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -25,6 +26,7 @@ const list: Array<[string, Migration]> = [
   ["0210_mechanisms", m0210],
   ["0300_workbench", m0300],
   ["0310_workbench_mechanism_links", m0310],
+  ["0320_run_server_process", m0320],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {
