@@ -27,7 +27,23 @@ export async function loadSessionUser(userId: number, epoch?: number): Promise<S
   return { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds };
 }
 
-export async function getOptionalUser(request: Request): Promise<SessionUser | null> {
+/**
+ * Users already looked up for a GET request: the shell's loader and the page's loader run on
+ * the same request and need the same answer, so the second asks the database no more.
+ */
+const lookedUp = new WeakMap<Request, Promise<SessionUser | null>>();
+
+export function getOptionalUser(request: Request): Promise<SessionUser | null> {
+  if (request.method !== "GET" && request.method !== "HEAD") return lookUp(request);
+  let user = lookedUp.get(request);
+  if (!user) {
+    user = lookUp(request);
+    lookedUp.set(request, user);
+  }
+  return user;
+}
+
+async function lookUp(request: Request): Promise<SessionUser | null> {
   if (!request.headers.get("Cookie")) return null;
   const session = await getSession(request);
   const id = sessionUserId(session);

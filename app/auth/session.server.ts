@@ -3,7 +3,7 @@
  * the app is served over https in production, 12-hour lifetime (renewed on sign-in).
  * It holds the user id, the CSRF token and the time of sign-in; nothing else.
  */
-import { createCookieSessionStorage, type Session } from "react-router";
+import { createCookie, createCookieSessionStorage, type Cookie, type Session } from "react-router";
 
 export interface SessionData {
   userId: number;
@@ -41,17 +41,52 @@ export function secureCookies(): boolean {
   return process.env.NODE_ENV === "production" && (process.env.APP_URL ?? "").startsWith("https://");
 }
 
+/**
+ * A signed cookie that remembers the headers it has already verified. A page request reads the
+ * session several times (the shell, the page, the CSRF token), and checking the signature costs
+ * far more than a lookup. Only a byte-identical Cookie header that passed the check before is
+ * answered from memory (a fresh copy each time); anything else is verified as usual. At most
+ * `size` headers are remembered, oldest forgotten first.
+ */
+export function rememberVerified(base: Cookie, size = 1000): Cookie {
+  const verified = new Map<string, string>(); // Cookie header → JSON of its verified value
+  return {
+    get name() {
+      return base.name;
+    },
+    get isSigned() {
+      return base.isSigned;
+    },
+    get expires() {
+      return base.expires;
+    },
+    async parse(header, options) {
+      if (!header || options) return base.parse(header, options);
+      const known = verified.get(header);
+      if (known !== undefined) return JSON.parse(known);
+      const value = await base.parse(header);
+      if (value && typeof value === "object") {
+        if (verified.size >= size) verified.delete(verified.keys().next().value!);
+        verified.set(header, JSON.stringify(value));
+      }
+      return value;
+    },
+    serialize: (value, options) => base.serialize(value, options),
+  };
+}
+
 export function sessionStorage(): Storage {
   storage ??= createCookieSessionStorage<SessionData, SessionFlash>({
-    cookie: {
-      name: SESSION_COOKIE,
-      httpOnly: true,
-      sameSite: "lax",
-      secure: secureCookies(),
-      path: "/",
-      maxAge: SESSION_MAX_AGE_S,
-      secrets: [secret()],
-    },
+    cookie: rememberVerified(
+      createCookie(SESSION_COOKIE, {
+        httpOnly: true,
+        sameSite: "lax",
+        secure: secureCookies(),
+        path: "/",
+        maxAge: SESSION_MAX_AGE_S,
+        secrets: [secret()],
+      }),
+    ),
   });
   return storage;
 }

@@ -77,9 +77,14 @@ export async function createUser(
 }
 
 export async function loadUserWithGroups(db: Knex, id: number): Promise<UserWithGroups | null> {
-  const r = await db("users").where({ id }).first();
+  // One round trip: the user's row once per membership (or once with NULLs when there is none).
+  const rows = await db("users as u")
+    .leftJoin("memberships as m", "m.user_id", "u.id")
+    .where("u.id", id)
+    .select("u.id", "u.email", "u.name", "u.role", "u.disabled", "u.email_verified_at", "u.session_epoch", "m.group_id", "m.group_role");
+  const r = rows[0];
   if (!r || r.disabled) return null;
-  const ms = await db("memberships").where({ user_id: id }).select("group_id", "group_role");
+  const ms = rows.filter((m: { group_id: number | null }) => m.group_id != null);
   return {
     id: Number(r.id),
     email: String(r.email),
