@@ -1,16 +1,18 @@
 /**
- * `npm run bench:load [-- seconds]`: load on a production build with a seeded database, all
- * on 127.0.0.1. Cases: library search API, the library page, a mechanism page, the rates
- * API and the simulate API, each at 50 concurrent connections for a bounded time (default
- * 10 s each; 60 s for the memory case with `-- 60`). Prints requests/s, latency percentiles,
- * errors and the server's resident memory before and after.
+ * `npm run bench:load [-- seconds [memorySeconds]]`: load on a production build (scripts/serve.ts,
+ * its default worker count) with a seeded database, all on 127.0.0.1. Cases: library search
+ * API, the library page, a mechanism page, the rates API and the simulate API, each at 50
+ * concurrent connections for a bounded time (default 10 s each). Then a memory run: all five
+ * requests in turn on 50 connections for `memorySeconds` (default 60), sampling the resident
+ * memory of the server's processes every 5 s.
+ * Prints requests/s, latency percentiles (p95 from every response time), errors and memory.
  * Targets (issue "Hardening"): p95 < 100 ms for pages and search, no errors, memory steady.
  */
 import autocannon from "autocannon";
 import knexFactory from "knex";
 import { execFileSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { createCookieSessionStorage } from "react-router";
+import { availableParallelism } from "node:os";
 import { ensureDatabase } from "../scripts/mariadb";
 import { buildApp, buildIsCurrent } from "../scripts/build-state";
 import { startAppServer } from "../scripts/app-server";
@@ -20,17 +22,55 @@ import { knexConfigFromUrl, withDatabase } from "../db/config";
 import { migrateLatest } from "../db/migrate";
 import { seedDemo } from "../db/seeds/index";
 import { createApiToken } from "../db/access/tokens.server";
+import { sessionStorage } from "../app/auth/session.server";
 
 const seconds = Number(process.argv[2] ?? process.env.LOAD_SECONDS ?? 10);
+const memorySeconds = Number(process.argv[3] ?? process.env.LOAD_MEMORY_SECONDS ?? 60);
 const CONNECTIONS = 50;
 
-function rssMiB(pid: number): number {
+/** Resident memory (MiB) of a process and all its descendants: the supervisor and its workers. */
+function treeRssMiB(pid: number): number {
   try {
-    // Resident memory of the server process tree's main process, KiB → MiB.
-    return Number(execFileSync("ps", ["-o", "rss=", "-p", String(pid)], { encoding: "utf8" }).trim()) / 1024;
+    const rows = execFileSync("ps", ["-e", "-o", "pid=,ppid=,rss="], { encoding: "utf8" })
+      .trim()
+      .split("\n")
+      .map((l) => l.trim().split(/\s+/).map(Number) as [number, number, number]);
+    const inTree = new Set([pid]);
+    let grew = true;
+    while (grew) {
+      grew = false;
+      for (const [p, pp] of rows) if (inTree.has(pp) && !inTree.has(p)) (inTree.add(p), (grew = true));
+    }
+    return rows.filter(([p]) => inTree.has(p)).reduce((a, [, , rss]) => a + rss, 0) / 1024; // KiB → MiB
   } catch {
     return NaN;
   }
+}
+
+function percentile(sorted: number[], q: number): number {
+  if (!sorted.length) return NaN;
+  return sorted[Math.min(sorted.length - 1, Math.ceil(q * sorted.length) - 1)]!;
+}
+
+interface LoadRequest {
+  path: string;
+  method?: string;
+  headers?: Record<string, string>;
+  body?: string;
+}
+
+/** One autocannon run that also keeps every response time (ms), for exact percentiles. */
+async function hammer(url: string, opts: { connections: number; duration: number; requests: LoadRequest[] }) {
+  const times: number[] = [];
+  // Without a callback autocannon returns its run tracker: an event emitter that is also a promise.
+  const inst = autocannon({ url, connections: opts.connections, duration: opts.duration, requests: opts.requests }) as unknown as Promise<Awaited<ReturnType<typeof autocannon>>> & {
+    on(event: "response", fn: (client: unknown, status: number, bytes: number, ms: number) => void): void;
+  };
+  inst.on("response", (_client: unknown, _status: number, _bytes: number, ms: number) => times.push(ms));
+  const r = await inst;
+  times.sort((a, b) => a - b);
+  const ms = (x: number) => Math.round(x * 10) / 10;
+  return { r, p50: ms(percentile(times, 0.5)), p95: ms(percentile(times, 0.95)), p99: ms(percentile(times, 0.99)), max: ms(times[times.length - 1] ?? NaN) };
 }
 
 async function main() {
@@ -69,10 +109,9 @@ async function main() {
     });
     stopApp = app.stop;
 
-    // A signed session cookie for the author, made with the app's own cookie settings.
-    const storage = createCookieSessionStorage({
-      cookie: { name: "__saddlebook", httpOnly: true, sameSite: "lax", path: "/", secrets: [secret], maxAge: 43200 },
-    });
+    // A signed session cookie for the author, made by the app's own session module.
+    process.env.SESSION_SECRET = secret;
+    const storage = sessionStorage();
     const session = await storage.getSession();
     session.set("userId", author.id);
     session.set("csrf", "load");
@@ -112,37 +151,64 @@ async function main() {
     const pid = app.child.pid!;
     const rows: string[][] = [];
     for (const c of cases) {
-      // Warm up (JIT, connection pool), then measure.
-      await autocannon({ url: appUrl + c.opts.path, connections: 5, duration: 1, method: c.opts.method ?? "GET", headers: c.opts.headers, body: c.opts.body });
-      const before = rssMiB(pid);
-      const r = await autocannon({
-        url: appUrl + c.opts.path,
-        connections: CONNECTIONS,
-        duration: seconds,
-        method: c.opts.method ?? "GET",
-        headers: c.opts.headers,
-        body: c.opts.body,
-      });
-      const after = rssMiB(pid);
+      const req: LoadRequest = { path: c.opts.path, method: c.opts.method ?? "GET", headers: c.opts.headers, body: c.opts.body };
+      // Warm up (JIT, connection pools), then measure.
+      await hammer(appUrl, { connections: 5, duration: 1, requests: [req] });
+      const before = treeRssMiB(pid);
+      const { r, p50, p95, p99, max } = await hammer(appUrl, { connections: CONNECTIONS, duration: seconds, requests: [req] });
+      const after = treeRssMiB(pid);
       const line = {
         case: c.name,
+        kind: c.kind,
         connections: CONNECTIONS,
         seconds,
         requestsPerSecond: Math.round(r.requests.average),
-        latencyMs: { p50: r.latency.p50, p90: r.latency.p90, p97_5: r.latency.p97_5, p99: r.latency.p99, max: r.latency.max },
+        latencyMs: { p50, p95, p99, max },
         total: r.requests.total,
         errors: r.errors + r.timeouts,
         non2xx: r.non2xx,
         rssMiB: { before: Math.round(before), after: Math.round(after) },
+        p95TargetMet: c.kind === "page" || c.name.startsWith("search") ? p95 < 100 : undefined,
       };
       console.log(JSON.stringify(line));
-      rows.push([c.name, String(line.requestsPerSecond), String(r.latency.p50), String(r.latency.p90), String(r.latency.p99), String(line.errors), String(r.non2xx), `${line.rssMiB.before}→${line.rssMiB.after}`]);
+      rows.push([c.name, String(line.requestsPerSecond), String(p50), String(p95), String(p99), String(line.errors), String(r.non2xx), `${line.rssMiB.before}→${line.rssMiB.after}`]);
     }
-    const head = ["case", "req/s", "p50 ms", "p90 ms", "p99 ms", "errors", "non-2xx", "RSS MiB"];
+    const head = ["case", "req/s", "p50 ms", "p95 ms", "p99 ms", "errors", "non-2xx", "RSS MiB"];
     const w = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
     const fmt = (r: string[]) => r.map((x, i) => (i === 0 ? x.padEnd(w[i]!) : x.padStart(w[i]!))).join("  ");
     console.log("\n" + [fmt(head), w.map((n) => "-".repeat(n)).join("  "), ...rows.map(fmt)].join("\n"));
-    console.log("(autocannon reports p90 and p97.5, not p95; p90 ≤ p95 ≤ p97.5.)");
+    console.log(`(server: ${process.env.WEB_CONCURRENCY ?? Math.min(4, availableParallelism())} worker processes on ${availableParallelism()} cores, shared with the load generator; RSS: all server processes)`);
+
+    if (memorySeconds > 0) {
+      // Memory: every request kind in turn on 50 connections, RSS sampled every 5 s.
+      const mixed: LoadRequest[] = cases.map((c) => ({ path: c.opts.path, method: c.opts.method ?? "GET", headers: c.opts.headers, body: c.opts.body }));
+      const samples: Array<{ s: number; rssMiB: number }> = [{ s: 0, rssMiB: Math.round(treeRssMiB(pid)) }];
+      const t0 = Date.now();
+      const sampler = setInterval(() => samples.push({ s: Math.round((Date.now() - t0) / 1000), rssMiB: Math.round(treeRssMiB(pid)) }), 5000);
+      const { r, p50, p95, p99 } = await hammer(appUrl, { connections: CONNECTIONS, duration: memorySeconds, requests: mixed });
+      clearInterval(sampler);
+      samples.push({ s: Math.round((Date.now() - t0) / 1000), rssMiB: Math.round(treeRssMiB(pid)) });
+      // Growth over the second half of the run (after warm-up), MiB per minute, by least squares.
+      const late = samples.filter((x) => x.s >= memorySeconds / 2);
+      const mx = late.reduce((a, x) => a + x.s, 0) / late.length, my = late.reduce((a, x) => a + x.rssMiB, 0) / late.length;
+      const sxx = late.reduce((a, x) => a + (x.s - mx) ** 2, 0), sxy = late.reduce((a, x) => a + (x.s - mx) * (x.rssMiB - my), 0);
+      const slope = sxx > 0 ? (sxy / sxx) * 60 : NaN;
+      console.log(
+        JSON.stringify({
+          case: "memory run (all five requests in turn)",
+          connections: CONNECTIONS,
+          seconds: memorySeconds,
+          requestsPerSecond: Math.round(r.requests.average),
+          total: r.requests.total,
+          latencyMs: { p50, p95, p99 },
+          errors: r.errors + r.timeouts,
+          non2xx: r.non2xx,
+          rssMiB: samples,
+          secondHalfGrowthMiBPerMin: Math.round(slope * 10) / 10,
+        }),
+      );
+      console.log(`\nmemory run ${memorySeconds} s: ${r.requests.total} requests, ${r.errors + r.timeouts} errors, ${r.non2xx} non-2xx; RSS MiB ${samples.map((x) => x.rssMiB).join(" → ")}; second-half growth ${slope.toFixed(1)} MiB/min`);
+    }
   } finally {
     await stopApp();
     await stopServices();
