@@ -8,6 +8,7 @@ import type { Actor, Role } from "./policy.server";
 import { getSession, sessionUserId } from "./session.server";
 import { getDb } from "../../db/client.server";
 import { loadUserWithGroups } from "../../db/access/users.server";
+import { onceInRequest } from "./request-scope.server";
 
 /** The signed-in user as routes and the policy module see them. */
 export interface SessionUser extends Actor {
@@ -28,19 +29,12 @@ export async function loadSessionUser(userId: number, epoch?: number): Promise<S
 }
 
 /**
- * Users already looked up for a GET request: the shell's loader and the page's loader run on
- * the same request and need the same answer, so the second asks the database no more.
+ * The signed-in user, or null. For a GET the answer is shared by everything that runs for the
+ * same request (the shell's and the page's loaders), so the second asks the database no more.
  */
-const lookedUp = new WeakMap<Request, Promise<SessionUser | null>>();
-
 export function getOptionalUser(request: Request): Promise<SessionUser | null> {
   if (request.method !== "GET" && request.method !== "HEAD") return lookUp(request);
-  let user = lookedUp.get(request);
-  if (!user) {
-    user = lookUp(request);
-    lookedUp.set(request, user);
-  }
-  return user;
+  return onceInRequest(`user:${request.headers.get("Cookie") ?? ""}`, () => lookUp(request));
 }
 
 async function lookUp(request: Request): Promise<SessionUser | null> {
