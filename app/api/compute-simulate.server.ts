@@ -168,11 +168,22 @@ function analysis(model: CompiledModel, species: Species[], res: SimulationResul
   return { ok: true as const, value: out };
 }
 
+/** The request on this thread: read and check the body, then simulate (tests, scripts). */
 export async function handleSimulate(request: Request): Promise<Response> {
   const body = await readJsonBody(request);
   if (!body.ok) return body.response;
-  const parsed = SimulateRequestSchema.safeParse(body.value);
-  if (!parsed.success) return invalidBody(zodFields(parsed.error, body.text));
+  return answerSimulate(body.value, body.text, request.signal);
+}
+
+/**
+ * Everything after reading the body: validation, simulation, analysis and the response. Pure
+ * computation, so it also runs in a compute thread (app/compute/api-pool.server.ts), where
+ * `signal` is a shared stop flag raised when the client goes away.
+ * @param value the parsed JSON body; @param text its text (for error positions)
+ */
+export async function answerSimulate(value: unknown, text: string, signal?: { readonly aborted: boolean }): Promise<Response> {
+  const parsed = SimulateRequestSchema.safeParse(value);
+  if (!parsed.success) return invalidBody(zodFields(parsed.error, text));
   const req = parsed.data;
 
   const doc = validateMechanismDocument(req.mechanism);
@@ -245,7 +256,7 @@ export async function handleSimulate(request: Request): Promise<Response> {
     method: settings.method,
     maxSteps: settings.maxSteps,
     maxWallMs: settings.wallTimeMs,
-    signal: request.signal,
+    signal: signal as AbortSignal | undefined, // only `aborted` is read
   });
   if (!run.ok) {
     const e = run.error;

@@ -1,12 +1,15 @@
 // Worker thread of the compute pool (piscina). Loads the TypeScript tasks through tsx.
 // A run: progress goes to a shared Float64Array (simulated time reached, s), a shared
-// Int32Array flag asks it to stop (the engine checks it at every step). A fit: same flag.
+// Int32Array flag asks it to stop (the engine checks it at every step). A fit, and a stateless
+// simulate API request (app/compute/api-pool.server.ts): same flag.
 import { tsImport } from "tsx/esm/api";
 
 const { runTask } = await tsImport("./run-task.ts", import.meta.url);
 const { fitTask } = await tsImport("./fit-task.ts", import.meta.url);
 
-export default function computeTask({ kind = "run", input, progress, control }) {
+let simulateApi;
+
+export default async function computeTask({ kind = "run", input, progress, control }) {
   const ctl = new Int32Array(control);
   const signal = {
     get aborted() {
@@ -14,6 +17,12 @@ export default function computeTask({ kind = "run", input, progress, control }) 
     },
   };
   if (kind === "fit") return fitTask(input, { signal });
+  if (kind === "simulate-api") {
+    // The stateless simulate API: the answer travels back as status, headers and body text.
+    simulateApi ??= await tsImport("../api/compute-simulate.server.ts", import.meta.url);
+    const res = await simulateApi.answerSimulate(input.value, input.text, signal);
+    return { status: res.status, headers: [...res.headers], body: await res.text() };
+  }
   const prog = new Float64Array(progress);
   prog[1] = 1; // started
   return runTask(input, { signal, onProgress: (t) => (prog[0] = t) });

@@ -4,8 +4,9 @@
  * [A] = [A]₀·exp(−kt), [B] = [A]₀ − [A] (any physical chemistry text, e.g. Atkins,
  * "integrated rate laws"), with k from the Eyring equation and CODATA 2018 constants.
  */
-import { afterEach, describe, expect, it, vi } from "vitest";
+import { afterAll, afterEach, describe, expect, it, vi } from "vitest";
 import { action, loader } from "../../app/routes/api.v1.simulate";
+import { closeApiPool } from "../../app/compute/api-pool.server";
 
 // The API's authentication (app/auth/api-auth.server.ts) is replaced by a switchable stand-in:
 // signed in by default, signed out where a test says so.
@@ -22,6 +23,8 @@ vi.mock("~/auth/api-auth.server", async () => {
 afterEach(() => {
   auth.signedIn = true;
 });
+// The action simulates in a compute thread; stop the threads when the file is done.
+afterAll(() => closeApiPool());
 
 // CODATA 2018 exact values.
 const K_B = 1.380649e-23; // J/K
