@@ -7,9 +7,7 @@ import { afterAll, describe, expect, it, vi } from "vitest";
 import { action } from "../../app/routes/api.v1.simulate";
 import { closeApiPool } from "../../app/compute/api-pool.server";
 
-vi.mock("~/auth/api-auth.server", () => ({
-  requireApiUser: async () => ({ id: 11, email: "thread@example.test", name: "Thread test", role: "author", groupIds: [], adminGroupIds: [] }),
-}));
+vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
 afterAll(() => closeApiPool());
 
 type Args = Parameters<typeof action>[0];

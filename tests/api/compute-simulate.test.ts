@@ -5,23 +5,15 @@
  * "integrated rate laws"), with k from the Eyring equation and CODATA 2018 constants.
  */
 import { afterAll, afterEach, describe, expect, it, vi } from "vitest";
+import { apiCaller } from "../support/api-auth-stand-in";
 import { action, loader } from "../../app/routes/api.v1.simulate";
 import { closeApiPool } from "../../app/compute/api-pool.server";
 
-// The API's authentication (app/auth/api-auth.server.ts) is replaced by a switchable stand-in:
-// signed in by default, signed out where a test says so.
-const auth = vi.hoisted(() => ({ signedIn: true }));
-vi.mock("~/auth/api-auth.server", async () => {
-  const { apiError } = await import("~/api/errors.server");
-  return {
-    requireApiUser: async () => {
-      if (!auth.signedIn) throw apiError(401, "unauthorized", "Sign in, or send an API token.");
-      return { id: 1, email: "kinetics@example.test", name: "Test user", role: "author", groupIds: [], adminGroupIds: [] };
-    },
-  };
-});
+// The API's authentication is replaced by the tests' stand-in: signed in as an author by
+// default, signed out where a test says so.
+vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
 afterEach(() => {
-  auth.signedIn = true;
+  apiCaller.userId = 1;
 });
 // The action simulates in a compute thread; stop the threads when the file is done.
 afterAll(() => closeApiPool());
@@ -159,7 +151,7 @@ describe("POST /api/v1/simulate", () => {
 
 describe("POST /api/v1/simulate: bad requests get the one error shape", () => {
   it("a caller who is not signed in gets 401 in the error shape", async () => {
-    auth.signedIn = false;
+    apiCaller.userId = 0;
     const { status, json } = await post({});
     expect(status).toBe(401);
     expectErrorShape(json);

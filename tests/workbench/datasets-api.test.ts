@@ -3,13 +3,12 @@
  * refused with their line numbers and nothing stored, read back in s and mol/L.
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { apiCaller } from "../support/api-auth-stand-in";
 import { freshDatabase, type TestDatabase } from "../support/db";
 import { applyMapping, guessMapping, guessTimeUnit, parseCsv } from "../../app/components/workbench/dataset-csv";
 
-const auth = vi.hoisted(() => ({ userId: 0 }));
-vi.mock("~/auth/api-auth.server", async () => ({
-  requireApiUser: async () => ({ id: auth.userId, email: "data@example.test", name: "Data tester", role: "author", groupIds: [], adminGroupIds: [] }),
-}));
+vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
+const auth = apiCaller;
 
 let t: TestDatabase;
 let list: typeof import("../../app/routes/api.v1.datasets");
@@ -19,6 +18,7 @@ beforeAll(async () => {
   t = await freshDatabase();
   process.env.DATABASE_URL = t.url;
   [auth.userId] = await t.db("users").insert({ email: "data@example.test", name: "Data tester", role: "author" });
+  Object.assign(auth, { email: "data@example.test", name: "Data tester" });
   list = await import("../../app/routes/api.v1.datasets");
   one = await import("../../app/routes/api.v1.datasets.$id");
 });

@@ -8,20 +8,12 @@
  * Eyring equation k = (k_B T/h)·exp(−ΔG‡/RT) with CODATA 2018 constants.
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { apiCaller } from "../support/api-auth-stand-in";
 import { freshDatabase, type TestDatabase } from "../support/db";
 import { firstOrder, robertson } from "./fixtures/mechanisms";
 
-const auth = vi.hoisted(() => ({ userId: 0 }));
-vi.mock("~/auth/api-auth.server", async () => {
-  const { apiError } = await import("~/api/errors.server");
-  return {
-    requireApiUser: async () => {
-      if (!auth.userId) throw apiError(401, "unauthorized", "Sign in.");
-      return { id: auth.userId, email: "runner@example.test", name: "Run tester", role: "author", groupIds: [], adminGroupIds: [] };
-    },
-    getApiUser: async () => (auth.userId ? { id: auth.userId, email: "runner@example.test", name: "Run tester", role: "author", groupIds: [], adminGroupIds: [] } : null),
-  };
-});
+vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
+const auth = apiCaller;
 
 const KB = 1.380649e-23, H = 6.62607015e-34, R = KB * 6.02214076e23; // CODATA 2018 exact
 
@@ -36,7 +28,7 @@ beforeAll(async () => {
   t = await freshDatabase();
   process.env.DATABASE_URL = t.url;
   const [uid] = await t.db("users").insert({ email: "runner@example.test", name: "Run tester", role: "author" });
-  auth.userId = uid;
+  Object.assign(auth, { userId: uid, email: "runner@example.test", name: "Run tester" });
   // a run left "running" by an earlier server process, an hour ago
   const { createRun } = await import("../../db/access/runs.server");
   const { resolveSolver } = await import("../../app/compute/run-request");
