@@ -192,7 +192,6 @@ export function integrateBDF(
   /** Re-sample the differences D[0..order] for a step size ρ·h (polynomial of degree `order`). */
   const T = new Float64Array((MAX_ORDER + 1) * (MAX_ORDER + 1));
   const P = new Float64Array((MAX_ORDER + 1) * (MAX_ORDER + 1));
-  const tmpRow = new Float64Array(MAX_ORDER + 1);
   const rescale = (order: number, rho: number) => {
     const K = order + 1;
     // P[m][i] = Π_{q<i} (q − mρ)/(q + 1): the Newton backward basis at s = −mρ
@@ -215,14 +214,9 @@ export function integrateBDF(
         T[j * K + i] = s;
       }
     }
-    for (let x = 0; x < n; x++) {
-      for (let i = 1; i < K; i++) tmpRow[i] = D[i * n + x];
-      for (let j = 1; j < K; j++) {
-        let s = 0;
-        for (let i = 1; i < K; i++) s += T[j * K + i] * tmpRow[i];
-        D[j * n + x] = s;
-      }
-    }
+    // T is upper triangular (the j-th difference of a degree-i polynomial in m vanishes for
+    // j > i), so the rows can be replaced in place in ascending order.
+    applyUpperTriangular(n, K, T, D);
   };
 
   // dense output of the last accepted step: p(tNew + s·h), s ∈ [−1, 0]
@@ -525,6 +519,20 @@ export function integrateBDF(
 }
 
 // ---- kernels (top-level so that the engine optimises each loop on its own)
+
+/** D_j ← Σ_{i ≥ j} T[j][i]·D_i for j = 1 … K−1 (T is K×K, upper triangular), in place. */
+function applyUpperTriangular(n: number, K: number, T: Float64Array, D: Float64Array): void {
+  for (let j = 1; j < K; j++) {
+    const oj = j * n, tjj = T[j * K + j];
+    for (let x = 0; x < n; x++) D[oj + x] *= tjj;
+    for (let i = j + 1; i < K; i++) {
+      const tji = T[j * K + i];
+      if (tji === 0) continue;
+      const oi = i * n;
+      for (let x = 0; x < n; x++) D[oj + x] += tji * D[oi + x];
+    }
+  }
+}
 
 /** Weighted RMS norm of v[off … off+n) with weights 1/scale. */
 function wnorm(n: number, v: Float64Array, off: number, scale: Float64Array): number {
