@@ -228,21 +228,21 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
   }
 
   const val = new Float64Array(nnz);
+  const rowMaxA = new Float64Array(n);
+  const aRow = new Int32Array(rowPtr[n]);
+  for (let oi = 0; oi < n; oi++) for (let q = rowPtr[oi]; q < rowPtr[oi + 1]; q++) aRow[q] = iperm[oi];
   const invDiag = new Float64Array(n);
   const nnzA = rowPtr[n];
 
   // Numeric elimination with the static schedule: the row-i update by L entry p = (i, k) is
-  // val[sched[m]] −= l_ik·u_kj over the U part of row k, m running from schedPtr[p].
+  // val[sched[m]] −= l_ik·u_kj over the U part of row k, m running from schedPtr[p] (unrolled by
+  // two). The pivot test compares with the largest entry of row i before elimination, which holds
+  // only the entries of the input (fill starts at zero): rowMaxA, filled by factorShifted.
   function eliminateScheduled(sc: Int32Array, scPtr: Int32Array): boolean {
     for (let i = 0; i < n; i++) {
       const start = luPtr[i];
-      const end = luPtr[i + 1];
       const d = diag[i];
-      let rowMax = 0;
-      for (let p = start; p < end; p++) {
-        const a = Math.abs(val[p]);
-        if (a > rowMax) rowMax = a;
-      }
+      const rowMax = rowMaxA[i];
       for (let p = start; p < d; p++) {
         const k = luCol[p];
         const lik = val[p] * invDiag[k];
@@ -250,7 +250,12 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
         if (lik === 0) continue;
         let m = scPtr[p];
         const kEnd = luPtr[k + 1];
-        for (let q = diag[k] + 1; q < kEnd; q++) val[sc[m++]] -= lik * val[q];
+        let q = diag[k] + 1;
+        for (; q + 1 < kEnd; q += 2, m += 2) {
+          val[sc[m]] -= lik * val[q];
+          val[sc[m + 1]] -= lik * val[q + 1];
+        }
+        if (q < kEnd) val[sc[m]] -= lik * val[q];
       }
       const piv = val[d];
       if (!Number.isFinite(piv) || piv === 0 || Math.abs(piv) <= 1e-14 * rowMax) return false;
@@ -293,6 +298,16 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
     if (scale === 1) for (let q = 0; q < nnzA; q++) val[aMap[q]] += values[q];
     else for (let q = 0; q < nnzA; q++) val[aMap[q]] += scale * values[q];
     if (shift !== 0) for (let i = 0; i < n; i++) val[diag[i]] += shift;
+    // row maxima of the (permuted) input for the pivot test of the scheduled elimination
+    rowMaxA.fill(0);
+    for (let q = 0; q < nnzA; q++) {
+      const a = Math.abs(val[aMap[q]]);
+      if (a > rowMaxA[aRow[q]]) rowMaxA[aRow[q]] = a;
+    }
+    for (let i = 0; i < n; i++) {
+      const a = Math.abs(val[diag[i]]);
+      if (a > rowMaxA[i]) rowMaxA[i] = a;
+    }
     return eliminate();
   }
 
