@@ -1,14 +1,16 @@
 /**
- * Engine benchmark cases: Robertson to t = 1e11, HIRES to t = 321.8122, seeded stiff
- * mass-action networks (N = 50, 200, 1000) through simulate(), and the rate-constant batch.
+ * Engine benchmark cases: Robertson to t = 1e11, HIRES to t = 321.8122 (RODAS4), seeded stiff
+ * mass-action networks (N = 50, 200, 1000) through simulate() (whose "auto" choice runs them with
+ * the BDF integrator, solver/bdf.ts), and the rate-constant batch.
  * Tolerances rtol 1e-6 throughout; atol per problem (stated below). When python3 with scipy is
  * available, bench/scipy_compare.py runs solve_ivp (BDF, Radau, LSODA, analytic Jacobians,
  * sparse for the networks) on the same problems and tolerances.
  *
- * References: Robertson and HIRES from the Bari IVP test set (Mazzia & Magherini), values as in
- * tests/solver/reference-problems.ts (shared with the integrator tests); networks: our own RODAS4 at rtol 1e-11, atol 1e-20,
- * computed once and cached in bench/results/ (a self-convergence reference; the scipy script
- * reports its error against the same reference, which cross-checks it).
+ * References: Robertson and HIRES from the Bari IVP test set (Mazzia & Magherini), values in
+ * tests/solver/reference-problems.ts (shared with the integrator tests); networks: our own
+ * RODAS4 at rtol 1e-11, atol 1e-20 (a different method from the one timed), computed once and
+ * cached in bench/results/ (a self-convergence reference; the scipy script reports its error
+ * against the same reference, which cross-checks it).
  *
  * Timing: wall-clock median after warm-up (steady state, as in the long-lived server or browser
  * tab); the first (cold, JIT-compiling) run and the median CPU time are reported beside it.
