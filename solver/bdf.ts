@@ -33,20 +33,8 @@
  * Units: t and h in the problem's time unit (s), y in its state unit (mol/L); rtol unitless,
  * atol in state units.
  */
-import {
-  defaultNow,
-  type IntegrateOptions,
-  type IntegrationError,
-  type IntegrationOutcome,
-  type IntegrationResult,
-  type IntegrationStats,
-  type OdeProblem,
-  type StepView,
-  type StopReason,
-} from "./ode-problem.ts";
-import { createDenseLU } from "./linalg-dense.ts";
-import { createSparseLU, type SparseLU } from "./linalg-sparse.ts";
-import { validateIntegrationInput } from "./rosenbrock.ts";
+import type { IntegrateOptions, IntegrationError, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
+import { REASON_CODE, partialResult, setUpRun, startingStep as startingStepFor, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
 
 const MAX_ORDER = 5;
 // Shampine & Reichelt (1997), Table 1: NDF κ for orders 1–4; order 5 is plain BDF (κ = 0).
@@ -67,15 +55,6 @@ const MIN_SHRINK = 0.2;
 /** Largest relative change of c = h/α_k for which the factored M is reused. */
 const LU_REUSE = 0.3;
 
-const REASON_CODE: Record<StopReason, string> = {
-  "budget-steps": "BUDGET_STEPS",
-  "budget-time": "BUDGET_TIME",
-  cancelled: "CANCELLED",
-  "step-size-underflow": "STEP_SIZE_UNDERFLOW",
-  "non-finite": "NON_FINITE",
-  singular: "SINGULAR",
-};
-
 /**
  * Integrate y' = f(t, y) from t0 to tEnd with the variable-order NDF/BDF method.
  * @param problem the ODE (rhs, optional analytic Jacobian)
@@ -93,48 +72,13 @@ export function integrateBDF(
 ): IntegrationOutcome {
   const bad = validateIntegrationInput(problem, t0, y0, tEnd, options);
   if (bad) return bad;
-  const now = options.now ?? defaultNow;
-  const wallStart = now();
-  const n = problem.n;
-  const rtol = options.rtol ?? 1e-6;
-  const atolOpt = options.atol ?? 1e-12;
-  const atol = typeof atolOpt === "number" ? new Float64Array(n).fill(atolOpt) : Float64Array.from(atolOpt);
-  const maxSteps = options.maxSteps ?? 100000;
-  const maxWallMs = options.maxWallMs ?? Infinity;
-  const span = tEnd - t0;
-  const maxStep = Math.min(options.maxStep ?? span, span);
-  const nonNeg = options.nonNegative ?? false;
-  const outT = options.outputTimes ? Float64Array.from(options.outputTimes) : Float64Array.of(tEnd);
-  const nOut = outT.length;
-  const states = new Float64Array(nOut * n);
-  const bps = options.breakpoints ? Array.from(options.breakpoints).filter((b) => b > t0 && b < tEnd).sort((a, b) => a - b) : [];
-  const stats: IntegrationStats = { steps: 0, accepted: 0, rejected: 0, rhsEvals: 0, jacEvals: 0, luDecomps: 0, wallMs: 0 };
+  const run = setUpRun(problem, t0, tEnd, options);
+  const { n, now, wallStart, rtol, atol, maxSteps, maxWallMs, maxStep, nonNeg, outT, nOut, states, bps, stats } = run;
 
-  // ---- linear algebra: M = I − c·J factored as shift 1, scale −c (same choice rule as RODAS4)
-  const jacDef = problem.jacobian;
-  const solverChoice = options.linearSolver ?? "auto";
-  let slu: SparseLU | null = null;
-  if (jacDef?.kind === "sparse" && solverChoice !== "dense") {
-    const cand = createSparseLU(n, jacDef.rowPtr, jacDef.colIdx);
-    // factor ≈ flops, a few solves per factorisation ≈ 2·nnz(L+U) each, ×2 for indirect addressing
-    const sparseCost = 2 * (cand.flops + 12 * cand.nnzLU);
-    const denseCost = (n * n * n) / 3 + 6 * n * n;
-    if (solverChoice === "sparse" || sparseCost < denseCost) slu = cand;
-  }
-  const jacValues: Float64Array | null = jacDef?.kind === "sparse" ? new Float64Array(jacDef.rowPtr[n]) : null;
-  const Jd: Float64Array | null = slu ? null : new Float64Array(n * n);
-  let solve: (b: Float64Array) => void;
-  let factorM: (c: number) => boolean;
-  if (slu) {
-    const s = slu, jv = jacValues!;
-    solve = s.solve;
-    factorM = (c: number) => s.factorShifted(jv, 1, -c);
-  } else {
-    const dlu = createDenseLU(n);
-    const J = Jd!;
-    solve = dlu.solve;
-    factorM = (c: number) => dlu.factorShifted(J, 1, -c);
-  }
+  // ---- linear algebra: M = I − c·J, factored as shift 1, scale −c
+  const la = stiffLinearAlgebra(problem, options, stats, (tt, yy, dy) => rhs(tt, yy, dy));
+  const solve = la.solve;
+  const factorM = (c: number) => la.factor(1, -c);
 
   // ---- state: backward differences D[j] = ∇^j y_n, j = 0 … MAX_ORDER+2, stored row by row
   const ND = MAX_ORDER + 3;
@@ -163,31 +107,7 @@ export function integrateBDF(
   };
 
   /** J at (tt, yy); fdBase must hold f(tt, yy) when no analytic Jacobian is given. */
-  const evalJacobian = (tt: number, yy: Float64Array, fdBase: Float64Array) => {
-    stats.jacEvals++;
-    if (jacDef?.kind === "sparse") {
-      jacDef.fill(tt, yy, jacValues!);
-      if (Jd) {
-        Jd.fill(0);
-        const rp = jacDef.rowPtr, ci = jacDef.colIdx;
-        for (let i = 0; i < n; i++) for (let p = rp[i]; p < rp[i + 1]; p++) Jd[i * n + ci[p]] += jacValues![p];
-      }
-    } else if (jacDef?.kind === "dense") {
-      jacDef.fill(tt, yy, Jd!);
-    } else {
-      // forward differences, column by column (common practice)
-      const J = Jd!;
-      ytmp.set(yy);
-      for (let j = 0; j < n; j++) {
-        const yj = ytmp[j];
-        const del = Math.sqrt(1e-16 * Math.max(1e-5, Math.abs(yj)));
-        ytmp[j] = yj + del;
-        rhs(tt, ytmp, ftmp);
-        ytmp[j] = yj;
-        for (let i = 0; i < n; i++) J[i * n + j] = (ftmp[i] - fdBase[i]) / del;
-      }
-    }
-  };
+  const evalJacobian = (tt: number, yy: Float64Array, fdBase: Float64Array) => la.evalJacobian(tt, yy, fdBase);
 
   /** Re-sample the differences D[0..order] for a step size ρ·h (polynomial of degree `order`). */
   const T = new Float64Array((MAX_ORDER + 1) * (MAX_ORDER + 1));
@@ -241,47 +161,16 @@ export function integrateBDF(
     if (nonNeg) for (let i = 0; i < n; i++) if (out[i] < 0 && out[i] >= -atol[i]) out[i] = 0;
     return out;
   };
-  const makePartial = (): IntegrationResult => ({
-    times: outT.slice(0, outIdx),
-    states: states.slice(0, outIdx * n),
-    tReached: t,
-    yFinal: yCurrent(),
-    stats: { ...stats, wallMs: now() - wallStart },
-  });
   const stop = (reason: StopReason, message: string): { ok: false; error: IntegrationError } => {
     stats.wallMs = now() - wallStart;
-    return { ok: false, error: { code: REASON_CODE[reason], message, reason, partial: makePartial() } };
+    return { ok: false, error: { code: REASON_CODE[reason], message, reason, partial: partialResult(run, outIdx, t, yCurrent()) } };
   };
   const tooSmall = (hh: number, tt: number) => !(hh > 1e-300) || hh < 8 * 2.220446049250313e-16 * Math.abs(tt);
 
-  /** Starting step for order 1 from (t, D[0]) with f in `f` (HW I §II.4 heuristic, common practice). */
+  /** Starting step for order 1 from (t, D[0]) with f in `f`. */
   const startingStep = (tStart: number, room: number): number => {
     if (options.initialStep && options.initialStep > 0 && tStart === t0) return Math.min(options.initialStep, room);
-    let d0 = 0, d1 = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i] + rtol * Math.abs(D[i]);
-      const s = sc > 0 ? sc : 1e-300;
-      d0 += (D[i] / s) ** 2;
-      d1 += (f[i] / s) ** 2;
-    }
-    d0 = Math.sqrt(d0 / n);
-    d1 = Math.sqrt(d1 / n);
-    let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 * room : (0.01 * d0) / d1;
-    h0 = Math.min(h0, maxStep, room);
-    for (let i = 0; i < n; i++) ytmp[i] = D[i] + h0 * f[i];
-    rhs(tStart + h0, ytmp, ftmp);
-    let d2 = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i] + rtol * Math.abs(D[i]);
-      const s = sc > 0 ? sc : 1e-300;
-      d2 += ((ftmp[i] - f[i]) / s) ** 2;
-    }
-    d2 = Math.sqrt(d2 / n) / h0;
-    const dm = Math.max(d1, d2);
-    const h1 = Number.isFinite(dm) && dm > 1e-15 ? Math.sqrt(0.01 / dm) : Math.max(1e-6 * room, h0 * 1e-3);
-    let hh = Math.min(100 * h0, h1, maxStep, room);
-    if (!(hh > 0) || !Number.isFinite(hh)) hh = 1e-6 * room;
-    return hh;
+    return startingStepFor({ n, t: tStart, y: D.subarray(0, n), f, atol, rtol, limit: Math.min(maxStep, room), scale: room, order: 1, rhs, ytmp, ftmp });
   };
 
   let bpIdx = 0;
@@ -503,7 +392,7 @@ export function integrateBDF(
   /** Re-evaluate J at the current solution (t, D[0]); the LU must then be refactored. */
   function refreshJacobian(): void {
     const yc = D.subarray(0, n);
-    if (jacDef === undefined) rhs(t, yc, f0);
+    if (problem.jacobian === undefined) rhs(t, yc, f0);
     evalJacobian(t, yc, f0);
     jacCurrent = true;
     luValid = false;

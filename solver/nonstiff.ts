@@ -7,15 +7,13 @@
 import { Solver as OdexSolverClass } from "./odex-binding.js";
 import type { Solver as OdexSolver } from "odex";
 import {
-  defaultNow,
   type IntegrateOptions,
   type IntegrationError,
   type IntegrationOutcome,
-  type IntegrationStats,
   type OdeProblem,
   type StopReason,
 } from "./ode-problem.ts";
-import { validateIntegrationInput } from "./rosenbrock.ts";
+import { setUpRun, validateIntegrationInput } from "./integrator-common.ts";
 
 type SolverCtor = new (n: number) => OdexSolver;
 const SolverClass: SolverCtor = OdexSolverClass;
@@ -30,16 +28,7 @@ export function integrateNonStiff(
 ): IntegrationOutcome {
   const bad = validateIntegrationInput(problem, t0, y0, tEnd, options);
   if (bad) return bad;
-  const now = options.now ?? defaultNow;
-  const wallStart = now();
-  const n = problem.n;
-  const outT = options.outputTimes ? Float64Array.from(options.outputTimes) : Float64Array.of(tEnd);
-  const nOut = outT.length;
-  const states = new Float64Array(nOut * n);
-  const maxSteps = options.maxSteps ?? 100000;
-  const maxWallMs = options.maxWallMs ?? Infinity;
-  const stats: IntegrationStats = { steps: 0, accepted: 0, rejected: 0, rhsEvals: 0, jacEvals: 0, luDecomps: 0, wallMs: 0 };
-  const bps = options.breakpoints ? Array.from(options.breakpoints).filter((b) => b > t0 && b < tEnd).sort((a, b) => a - b) : [];
+  const { n, now, wallStart, outT, nOut, states, maxSteps, maxWallMs, stats, bps } = setUpRun(problem, t0, tEnd, options);
   const segEnds = [...bps, tEnd];
   const yb = new Float64Array(n);
   const db = new Float64Array(n);

@@ -18,19 +18,10 @@
  * Units: t and h in the problem's time unit (s), y in its state unit (mol/L); tolerances:
  * rtol unitless, atol in state units.
  */
-import {
-  defaultNow,
-  type IntegrateOptions,
-  type IntegrationError,
-  type IntegrationOutcome,
-  type IntegrationResult,
-  type IntegrationStats,
-  type OdeProblem,
-  type StepView,
-  type StopReason,
-} from "./ode-problem.ts";
-import { createDenseLU } from "./linalg-dense.ts";
-import { createSparseLU, type SparseLU } from "./linalg-sparse.ts";
+import type { IntegrateOptions, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
+import { REASON_CODE, fail, partialResult, setUpRun, startingStep, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
+
+export { validateIntegrationInput } from "./integrator-common.ts";
 
 // RODAS4 coefficients, Hairer & Wanner II (1996), transformed form.
 const GAMMA = 0.25;
@@ -53,67 +44,6 @@ const SAFE = 0.9;
 const FAC_MIN_INV = 1 / 6; // h may grow by at most 6×
 const FAC_MAX_INV = 5; // h may shrink by at most 5× per controller decision
 
-function fail(
-  reason: StopReason | "bad-input",
-  code: string,
-  message: string,
-  partial?: IntegrationResult,
-  path?: string,
-): { ok: false; error: IntegrationError } {
-  const error: IntegrationError = { code, message, reason };
-  if (partial) error.partial = partial;
-  if (path) error.path = path;
-  return { ok: false, error };
-}
-
-const REASON_CODE: Record<StopReason, string> = {
-  "budget-steps": "BUDGET_STEPS",
-  "budget-time": "BUDGET_TIME",
-  cancelled: "CANCELLED",
-  "step-size-underflow": "STEP_SIZE_UNDERFLOW",
-  "non-finite": "NON_FINITE",
-  singular: "SINGULAR",
-};
-
-/** Validate the common inputs of both integrators; returns an error or null. */
-export function validateIntegrationInput(
-  problem: OdeProblem,
-  t0: number,
-  y0: ArrayLike<number>,
-  tEnd: number,
-  options: IntegrateOptions,
-): { ok: false; error: IntegrationError } | null {
-  const n = problem.n;
-  if (!Number.isInteger(n) || n < 1) return fail("bad-input", "BAD_INPUT", "The problem must have at least one unknown.", undefined, "n");
-  if (y0.length !== n) return fail("bad-input", "BAD_INPUT", `The initial state has ${y0.length} values but the problem has ${n} unknowns.`, undefined, "y0");
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y0[i])) return fail("bad-input", "NON_FINITE", `Initial value ${i} is not a finite number.`, undefined, `y0[${i}]`);
-  }
-  if (!Number.isFinite(t0) || !Number.isFinite(tEnd)) return fail("bad-input", "NON_FINITE", "Start and end times must be finite numbers.", undefined, "tEnd");
-  if (!(tEnd > t0)) return fail("bad-input", "TIME_SPAN", "The end time must be later than the start time.", undefined, "tEnd");
-  const rtol = options.rtol ?? 1e-6;
-  if (!(rtol > 0) || !Number.isFinite(rtol) || rtol >= 1) return fail("bad-input", "BAD_TOLERANCE", "The relative tolerance must be a number between 0 and 1 (exclusive).", undefined, "rtol");
-  const atol = options.atol ?? 1e-12;
-  if (typeof atol === "number") {
-    if (!(atol >= 0) || !Number.isFinite(atol)) return fail("bad-input", "BAD_TOLERANCE", "The absolute tolerance must be a finite number ≥ 0.", undefined, "atol");
-  } else {
-    if (atol.length !== n) return fail("bad-input", "BAD_TOLERANCE", "The absolute tolerance array must have one entry per unknown.", undefined, "atol");
-    for (let i = 0; i < n; i++) if (!(atol[i] >= 0) || !Number.isFinite(atol[i])) return fail("bad-input", "BAD_TOLERANCE", "Every absolute tolerance must be a finite number ≥ 0.", undefined, `atol[${i}]`);
-  }
-  const out = options.outputTimes;
-  if (out) {
-    let prev = -Infinity;
-    for (let k = 0; k < out.length; k++) {
-      const tk = out[k];
-      if (!Number.isFinite(tk) || tk < t0 || tk > tEnd || tk < prev) return fail("bad-input", "BAD_OUTPUT_TIMES", "Output times must be finite, ascending and within the integration interval.", undefined, `outputTimes[${k}]`);
-      prev = tk;
-    }
-  }
-  if (options.maxSteps !== undefined && !(options.maxSteps >= 1)) return fail("bad-input", "BAD_BUDGET", "The step budget must be at least 1.", undefined, "maxSteps");
-  if (options.maxWallMs !== undefined && !(options.maxWallMs > 0)) return fail("bad-input", "BAD_BUDGET", "The wall-time budget must be positive.", undefined, "maxWallMs");
-  return null;
-}
-
 /**
  * Integrate y' = f(t, y) from t0 to tEnd with RODAS4.
  * @param problem the ODE (rhs, optional analytic Jacobian)
@@ -131,52 +61,14 @@ export function integrateStiff(
 ): IntegrationOutcome {
   const bad = validateIntegrationInput(problem, t0, y0, tEnd, options);
   if (bad) return bad;
-  const now = options.now ?? defaultNow;
-  const wallStart = now();
-  const n = problem.n;
-  const rtol = options.rtol ?? 1e-6;
-  const atolOpt = options.atol ?? 1e-12;
-  const atol = typeof atolOpt === "number" ? new Float64Array(n).fill(atolOpt) : Float64Array.from(atolOpt);
-  const maxSteps = options.maxSteps ?? 100000;
-  const maxWallMs = options.maxWallMs ?? Infinity;
-  const span = tEnd - t0;
-  const maxStep = Math.min(options.maxStep ?? span, span);
-  const nonNeg = options.nonNegative ?? false;
-  const outT = options.outputTimes ? Float64Array.from(options.outputTimes) : Float64Array.of(tEnd);
-  const nOut = outT.length;
-  const states = new Float64Array(nOut * n);
-  const bps = options.breakpoints ? Array.from(options.breakpoints).filter((b) => b > t0 && b < tEnd).sort((a, b) => a - b) : [];
+  const run = setUpRun(problem, t0, tEnd, options);
+  const { n, now, wallStart, rtol, atol, maxSteps, maxWallMs, span, maxStep, nonNeg, outT, nOut, states, bps, stats } = run;
   const autonomous = problem.autonomous ?? false;
-  const stats: IntegrationStats = { steps: 0, accepted: 0, rejected: 0, rhsEvals: 0, jacEvals: 0, luDecomps: 0, wallMs: 0 };
 
-  // ---- linear algebra set-up
-  // W = I/(hγ) − J is factored straight from the Jacobian values (no intermediate copy).
-  // "auto" picks the sparse LU when its operation count (from the one-time symbolic analysis)
-  // beats the dense one: factor ≈ flops, six solves ≈ 2·nnz(L+U) each, with a factor 2 for
-  // indirect addressing; dense: n³/3 + 6n².
-  const jacDef = problem.jacobian;
-  const solverChoice = options.linearSolver ?? "auto";
-  let slu: SparseLU | null = null;
-  if (jacDef?.kind === "sparse" && solverChoice !== "dense") {
-    const cand = createSparseLU(n, jacDef.rowPtr, jacDef.colIdx);
-    const sparseCost = 2 * (cand.flops + 12 * cand.nnzLU);
-    const denseCost = (n * n * n) / 3 + 6 * n * n;
-    if (solverChoice === "sparse" || sparseCost < denseCost) slu = cand;
-  }
-  const jacValues: Float64Array | null = jacDef?.kind === "sparse" ? new Float64Array(jacDef.rowPtr[n]) : null;
-  const Jd: Float64Array | null = slu ? null : new Float64Array(n * n); // dense Jacobian, row-major
-  let solve: (b: Float64Array) => void;
-  let factorW: (fac: number) => boolean;
-  if (slu) {
-    const s = slu, jv = jacValues!;
-    solve = s.solve;
-    factorW = (fac: number) => s.factorShifted(jv, fac, -1);
-  } else {
-    const dlu = createDenseLU(n);
-    const J = Jd!;
-    solve = dlu.solve;
-    factorW = (fac: number) => dlu.factorShifted(J, fac, -1);
-  }
+  // ---- linear algebra: W = I/(hγ) − J, factored as shift 1/(hγ), scale −1
+  const la = stiffLinearAlgebra(problem, options, stats, (tt, yy, dy) => rhs(tt, yy, dy));
+  const solve = la.solve;
+  const factorW = (fac: number) => la.factor(fac, -1);
 
   // ---- work arrays
   const y = Float64Array.from(y0 as ArrayLike<number>);
@@ -202,30 +94,7 @@ export function integrateStiff(
     problem.rhs(tt, yy, dy);
   };
 
-  const evalJacobian = (tt: number) => {
-    stats.jacEvals++;
-    if (jacDef?.kind === "sparse") {
-      jacDef.fill(tt, y, jacValues!);
-      if (Jd) {
-        Jd.fill(0);
-        const rp = jacDef.rowPtr, ci = jacDef.colIdx;
-        for (let i = 0; i < n; i++) for (let p = rp[i]; p < rp[i + 1]; p++) Jd[i * n + ci[p]] += jacValues![p];
-      }
-    } else if (jacDef?.kind === "dense") {
-      jacDef.fill(tt, y, Jd!);
-    } else {
-      // forward differences, column by column (HW II, common practice)
-      const J = Jd!;
-      for (let j = 0; j < n; j++) {
-        const yj = y[j];
-        const del = Math.sqrt(1e-16 * Math.max(1e-5, Math.abs(yj)));
-        y[j] = yj + del;
-        rhs(tt, y, ftmp);
-        y[j] = yj;
-        for (let i = 0; i < n; i++) J[i * n + j] = (ftmp[i] - f0[i]) / del;
-      }
-    }
-  };
+  const evalJacobian = (tt: number) => la.evalJacobian(tt, y, f0);
 
   const view: StepView = {
     t0: t0,
@@ -238,51 +107,19 @@ export function integrateStiff(
     },
   };
 
-  const makePartial = (): IntegrationResult => ({
-    times: outT.slice(0, outIdx),
-    states: states.slice(0, outIdx * n),
-    tReached: t,
-    yFinal: Float64Array.from(y),
-    stats: { ...stats, wallMs: now() - wallStart },
-  });
   const stop = (reason: StopReason, message: string) => {
     stats.wallMs = now() - wallStart;
-    return fail(reason, REASON_CODE[reason], message, makePartial());
+    return fail(reason, REASON_CODE[reason], message, partialResult(run, outIdx, t, Float64Array.from(y)));
   };
 
   rhs(t, y, f0);
   for (let i = 0; i < n; i++) if (!Number.isFinite(f0[i])) return stop("non-finite", "The right-hand side is not finite at the initial state.");
 
-  // initial step (HW I §II.4 heuristic, common practice)
-  let h: number;
-  if (options.initialStep && options.initialStep > 0) h = options.initialStep;
-  else {
-    let d0 = 0, d1 = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i] + rtol * Math.abs(y[i]);
-      const s = sc > 0 ? sc : 1e-300;
-      d0 += (y[i] / s) ** 2;
-      d1 += (f0[i] / s) ** 2;
-    }
-    d0 = Math.sqrt(d0 / n);
-    d1 = Math.sqrt(d1 / n);
-    // HW I §II.4 starting-step algorithm (common practice), with order 4
-    let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 * span : (0.01 * d0) / d1;
-    h0 = Math.min(h0, maxStep, span * 0.1);
-    for (let i = 0; i < n; i++) ytmp[i] = y[i] + h0 * f0[i];
-    rhs(t + h0, ytmp, ftmp);
-    let d2 = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i] + rtol * Math.abs(y[i]);
-      const s = sc > 0 ? sc : 1e-300;
-      d2 += ((ftmp[i] - f0[i]) / s) ** 2;
-    }
-    d2 = Math.sqrt(d2 / n) / h0;
-    const dm = Math.max(d1, d2);
-    const h1 = Number.isFinite(dm) && dm > 1e-15 ? Math.pow(0.01 / dm, 0.2) : Math.max(1e-6 * span, h0 * 1e-3);
-    h = Math.min(100 * h0, h1, maxStep, span * 0.1);
-    if (!(h > 0) || !Number.isFinite(h)) h = 1e-6 * span;
-  }
+  // initial step (HW I §II.4 heuristic, common practice), for order 4
+  let h =
+    options.initialStep && options.initialStep > 0
+      ? options.initialStep
+      : startingStep({ n, t, y, f: f0, atol, rtol, limit: Math.min(maxStep, span * 0.1), scale: span, order: 4, rhs, ytmp, ftmp });
   const tooSmall = (hh: number, tt: number) => !(hh > 1e-300) || hh < 8 * 2.220446049250313e-16 * Math.abs(tt);
 
   let bpIdx = 0;

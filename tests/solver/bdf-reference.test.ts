@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
 import { integrateBDF } from "../../solver/bdf.ts";
-import { integrateStiff } from "../../solver/rosenbrock.ts";
 import { compileMechanism, type MechanismInput } from "../../solver/model.ts";
 import { simulate, type SimulateOptions } from "../../solver/simulate.ts";
 import type { OdeProblem, StepView } from "../../solver/ode-problem.ts";
