@@ -17,9 +17,10 @@ export async function startAppServer(opts: {
   quiet?: boolean;
 }): Promise<AppServer> {
   const host = "127.0.0.1";
-  // Development: Vite's server. Production: scripts/serve.ts (a supervisor and its worker processes).
-  const bin = resolve(projectRoot, "node_modules/.bin", opts.dev ? "react-router" : "tsx");
-  const args = opts.dev ? ["dev", "--host", host, "--port", String(opts.port), "--strictPort"] : ["scripts/serve.ts"];
+  // Development: Vite's server. Production: scripts/serve.ts (a supervisor and its worker
+  // processes), run by Node itself so that the child is the supervisor and signals reach it.
+  const bin = opts.dev ? resolve(projectRoot, "node_modules/.bin", "react-router") : process.execPath;
+  const args = opts.dev ? ["dev", "--host", host, "--port", String(opts.port), "--strictPort"] : ["--import", "tsx", "scripts/serve.ts"];
   const child = spawn(bin, args, {
     cwd: projectRoot,
     env: {
@@ -42,7 +43,11 @@ export async function startAppServer(opts: {
   while (!(await portAnswers(opts.port, host))) {
     if (exited) throw new Error("The app server stopped while starting (see the messages above).");
     if (Date.now() > deadline) {
-      child.kill("SIGTERM");
+      try {
+        process.kill(-child.pid!, "SIGKILL");
+      } catch {
+        child.kill("SIGKILL");
+      }
       throw new Error("The app server did not answer within 60 s.");
     }
     await new Promise((r) => setTimeout(r, 150));
@@ -55,9 +60,16 @@ export async function startAppServer(opts: {
         if (exited) return done();
         child.once("exit", () => done());
         child.kill("SIGTERM");
+        // Longer than the production server's own drain (10 s, then it kills its workers);
+        // then the whole process group, so no worker outlives it.
         setTimeout(() => {
-          if (!exited) child.kill("SIGKILL");
-        }, 5000).unref();
+          if (exited) return;
+          try {
+            process.kill(-child.pid!, "SIGKILL");
+          } catch {
+            child.kill("SIGKILL");
+          }
+        }, 15_000).unref();
       }),
   };
 }

@@ -7,11 +7,12 @@
  * scripts/serve-worker.mjs.
  *
  * The supervisor:
- *  - before starting any worker, marks runs left queued or running by an earlier server failed
- *    (they can never finish), so each worker starts with an empty queue;
+ *  - marks runs left queued or running by an earlier server failed (they can never finish),
+ *    before starting the workers, retried while the database is not answering;
  *  - names each worker (SADDLEBOOK_SERVER_PROCESS); a worker's runs carry its name, and when a
  *    worker dies its queued and running runs are marked failed with the reason and a fresh
- *    worker takes its place (it gives up, and stops the server, after 5 deaths within a minute);
+ *    worker takes its place (it gives up, and stops the server with exit code 1, after 5 deaths
+ *    within a minute); on a normal stop the workers' unfinished runs are failed the same way;
  *  - keeps the compute API's per-user request windows for all workers (IPC), so the limit is
  *    the server's, not each worker's;
  *  - on SIGTERM or SIGINT stops accepting connections, lets the workers finish the requests
@@ -23,85 +24,109 @@ import { availableParallelism } from "node:os";
 import { join, resolve } from "node:path";
 import knexFactory from "knex";
 import { knexConfigFromUrl } from "../db/config";
-import { failInterruptedRuns, failRunsOfServerProcess } from "../db/access/runs.server";
+import { failRunsOfOtherServers, failRunsOfServerProcess } from "../db/access/runs.server";
 import { SlidingWindows, WINDOW_ANSWER, WINDOW_REQUEST, type WindowAnswer, type WindowRequest } from "../app/security/sliding-window";
 
 const root = resolve(import.meta.dirname, "..");
 const SHUTDOWN_GRACE_MS = 10_000;
 
-function workerCount(): number {
-  const n = Number(process.env.WEB_CONCURRENCY);
-  if (process.env.WEB_CONCURRENCY && Number.isInteger(n) && n >= 1 && n <= 64) return n;
-  return Math.max(1, Math.min(4, availableParallelism()));
+/** A positive whole number from the environment, or the default; anything else stops start-up. */
+function countSetting(name: string, fallback: number, max: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw === "") return fallback;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1 || n > max) {
+    console.error(`${name} must be a whole number from 1 to ${max} (got "${raw}"): fix it in the environment or .env.`);
+    process.exit(1);
+  }
+  return n;
 }
 
 async function supervise() {
-  const workers = workerCount();
+  const workers = countSetting("WEB_CONCURRENCY", Math.max(1, Math.min(4, availableParallelism())), 64);
+  const threads = countSetting("COMPUTE_THREADS", Math.max(1, Math.floor((availableParallelism() - 1) / workers)), 64);
   const bootId = randomBytes(4).toString("hex");
   const dbUrl = process.env.DATABASE_URL;
   if (!dbUrl) throw new Error("DATABASE_URL is not set.");
   const db = knexFactory(knexConfigFromUrl(dbUrl, { min: 0, max: 1 }));
-  try {
-    const [rows] = (await db.raw("SELECT NOW(3) AS t")) as unknown as [{ t: Date }[]];
-    await failInterruptedRuns(db, rows[0]!.t);
-  } catch (e) {
-    // The workers report the database's state on every request (503 with the reason).
-    console.error(`Could not check for interrupted runs: ${(e as Error).message}`);
-  }
+
+  // Runs left queued or running by an earlier server can never finish: fail them. Every run of
+  // this server carries a name starting with bootId, so this is safe while workers run; while
+  // the database is not answering it is retried.
+  const sweep = async (): Promise<void> => {
+    try {
+      await failRunsOfOtherServers(db, `${bootId}.`);
+    } catch (e) {
+      const err = e as { code?: string; message: string };
+      const unreachable = ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "PROTOCOL_CONNECTION_LOST", "ER_CON_COUNT_ERROR"].includes(err.code ?? "");
+      console.error(`Could not check for interrupted runs (${err.code ?? err.message})${unreachable ? "; trying again in 5 s" : ""}.`);
+      if (unreachable) setTimeout(() => void sweep(), 5000).unref();
+    }
+  };
+  await sweep();
 
   const windows = new SlidingWindows();
   const names = new Map<Worker, string>();
   const deaths: number[] = [];
   let serial = 0;
   let stopping = false;
-  const threads = process.env.COMPUTE_THREADS ?? String(Math.max(1, Math.floor((availableParallelism() - 1) / workers)));
+  let exitCode = 0;
 
   const start = () => {
     const name = `${bootId}.${++serial}`;
-    const w = cluster.fork({ SADDLEBOOK_SERVER_PROCESS: name, COMPUTE_THREADS: threads });
+    const w = cluster.fork({ SADDLEBOOK_SERVER_PROCESS: name, COMPUTE_THREADS: String(threads) });
     names.set(w, name);
     w.on("message", (msg: unknown) => {
       const m = msg as Partial<WindowRequest> | null;
       if (!m || m.type !== WINDOW_REQUEST || typeof m.id !== "number" || typeof m.key !== "string") return;
-      const answer: WindowAnswer = { type: WINDOW_ANSWER, id: m.id, verdict: windows.hit(m.key, Number(m.limit), Number(m.now)) };
+      // One clock for all workers' requests: the supervisor's.
+      const answer: WindowAnswer = { type: WINDOW_ANSWER, id: m.id, verdict: windows.hit(m.key, Number(m.limit), Date.now()) };
       if (w.isConnected()) w.send(answer);
     });
+  };
+
+  /** A worker is gone: its queued and running runs can never finish. */
+  const failRunsOf = (name: string | undefined) =>
+    name
+      ? failRunsOfServerProcess(db, name).catch((e: { code?: string; message: string }) => console.error(`Could not mark the stopped worker's runs failed (${e.code ?? e.message}).`))
+      : Promise.resolve();
+
+  const stop = (code: number) => {
+    exitCode = Math.max(exitCode, code);
+    if (stopping) return;
+    stopping = true;
+    if (names.size === 0) void db.destroy().finally(() => process.exit(exitCode));
+    for (const w of names.keys()) w.process.kill("SIGTERM");
+    setTimeout(() => {
+      for (const w of names.keys()) w.process.kill("SIGKILL");
+      process.exit(exitCode);
+    }, SHUTDOWN_GRACE_MS + 2000).unref();
   };
 
   cluster.on("exit", (w, code, signal) => {
     const name = names.get(w);
     names.delete(w);
     if (stopping) {
-      if (names.size === 0) void db.destroy().finally(() => process.exit(0));
+      void failRunsOf(name).then(() => {
+        if (names.size === 0) void db.destroy().finally(() => process.exit(exitCode));
+      });
       return;
     }
     console.error(`A server worker stopped (${signal ?? `exit code ${code}`}); starting another.`);
-    if (name) void failRunsOfServerProcess(db, name).catch((e) => console.error(`Could not mark its runs failed: ${(e as Error).message}`));
+    void failRunsOf(name);
     const now = Date.now();
     deaths.push(now);
     while (deaths.length && deaths[0]! < now - 60_000) deaths.shift();
     if (deaths.length >= 5) {
       console.error("Server workers keep stopping (5 within a minute): stopping the server.");
-      stopping = true;
-      for (const other of names.keys()) other.process.kill("SIGTERM");
-      if (names.size === 0) void db.destroy().finally(() => process.exit(1));
+      stop(1);
       return;
     }
     start();
   });
 
-  const stop = () => {
-    if (stopping) return;
-    stopping = true;
-    if (names.size === 0) void db.destroy().finally(() => process.exit(0));
-    for (const w of names.keys()) w.process.kill("SIGTERM");
-    setTimeout(() => {
-      for (const w of names.keys()) w.process.kill("SIGKILL");
-      process.exit(0);
-    }, SHUTDOWN_GRACE_MS + 2000).unref();
-  };
-  process.once("SIGTERM", stop);
-  process.once("SIGINT", stop);
+  process.once("SIGTERM", () => stop(0));
+  process.once("SIGINT", () => stop(0));
 
   // Workers run plain JavaScript on plain Node (no TypeScript loader between them and the build).
   cluster.setupPrimary({ exec: join(root, "scripts/serve-worker.mjs"), execArgv: [] });

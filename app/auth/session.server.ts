@@ -44,12 +44,17 @@ export function secureCookies(): boolean {
 /**
  * A signed cookie that remembers the headers it has already verified. A page request reads the
  * session several times (the shell, the page, the CSRF token), and checking the signature costs
- * far more than a lookup. Only a byte-identical Cookie header that passed the check before is
+ * far more than a lookup. Only a byte-identical cookie value that passed the check before is
  * answered from memory (a fresh copy each time); anything else is verified as usual. At most
- * `size` headers are remembered, oldest forgotten first.
+ * `size` values are remembered, oldest forgotten first.
  */
+function escapeRegExp(s: string): string {
+  return s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+}
+
 export function rememberVerified(base: Cookie, size = 1000): Cookie {
-  const verified = new Map<string, string>(); // Cookie header → JSON of its verified value
+  const verified = new Map<string, string>(); // "name=value" → JSON of its verified value
+  const own = new RegExp(`(?:^|;\\s*)(${escapeRegExp(base.name)}=[^;]*)`);
   return {
     get name() {
       return base.name;
@@ -61,13 +66,15 @@ export function rememberVerified(base: Cookie, size = 1000): Cookie {
       return base.expires;
     },
     async parse(header, options) {
-      if (!header || options) return base.parse(header, options);
-      const known = verified.get(header);
+      // Keyed by this cookie's own name=value pair, not the whole header (other cookies vary).
+      const pair = header && !options ? own.exec(header)?.[1] : undefined;
+      if (!pair) return base.parse(header, options);
+      const known = verified.get(pair);
       if (known !== undefined) return JSON.parse(known);
-      const value = await base.parse(header);
+      const value = await base.parse(pair);
       if (value && typeof value === "object") {
         if (verified.size >= size) verified.delete(verified.keys().next().value!);
-        verified.set(header, JSON.stringify(value));
+        verified.set(pair, JSON.stringify(value));
       }
       return value;
     },

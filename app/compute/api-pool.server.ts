@@ -4,20 +4,24 @@
  * answers meanwhile. A pool of its own, apart from the stored runs' pool (pool.server.ts), so
  * a queue of long stored runs never delays an API answer.
  *
- * Threads: COMPUTE_THREADS (see pool.server.ts), default the cores left after one, 1–4.
- * At most MAX_QUEUE simulations wait for a thread; beyond that the answer is 503 with
- * Retry-After. When the client goes away a shared flag stops the engine at its next step; a
- * thread that overruns the simulate API's wall-time cap by more than GRACE_MS is terminated.
+ * Threads: computeThreads() (threads.server.ts). At most MAX_QUEUE simulations wait for a
+ * thread, and none longer than MAX_WAIT_MS; beyond either the answer is 503 with Retry-After.
+ * When the client goes away a shared flag stops the engine at its next step; a thread that
+ * overruns the simulate API's wall-time cap by more than GRACE_MS, counted from when it started
+ * the simulation, is terminated.
  */
 import { Piscina } from "piscina";
-import { availableParallelism } from "node:os";
 import { pathToFileURL } from "node:url";
 import { apiError } from "../api/errors.server";
 import { defaultWorkerFile } from "./pool.server";
+import { computeThreads } from "./threads.server";
 
 /** Simulations that may wait for a thread, per server process. */
-export const MAX_QUEUE = 256;
+export const MAX_QUEUE = 64;
+/** Longest wait for a thread, ms. */
+export const MAX_WAIT_MS = 20_000;
 const GRACE_MS = 15_000;
+const TICK_MS = 200;
 
 interface WireResponse {
   status: number;
@@ -27,16 +31,11 @@ interface WireResponse {
 
 let pool: Piscina | undefined;
 
-function threads(): number {
-  const fromEnv = Number(process.env.COMPUTE_THREADS);
-  return Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : Math.max(1, Math.min(4, availableParallelism() - 1));
-}
-
 function apiPool(): Piscina {
   pool ??= new Piscina({
     filename: pathToFileURL(defaultWorkerFile()).href,
     minThreads: 1,
-    maxThreads: threads(),
+    maxThreads: computeThreads(),
     maxQueue: MAX_QUEUE,
     idleTimeout: 300_000,
     resourceLimits: { maxOldGenerationSizeMb: 2048 },
@@ -44,33 +43,46 @@ function apiPool(): Piscina {
   return pool;
 }
 
+const busy = (why: string) => apiError(503, "busy", `The simulation service is busy (${why}); try again shortly.`, undefined, { "Retry-After": "5" });
+
 /**
  * Answers a simulate API body (already read and parsed) in a compute thread.
  * @param maxWallMs the API's wall-time cap, ms (the engine stops itself there; the thread is
- *   terminated GRACE_MS later if it has not)
+ *   terminated GRACE_MS after that, counted from the start of the simulation, if it has not)
  */
 export async function simulateInThread(value: unknown, text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
   const control = new SharedArrayBuffer(4);
   const flag = new Int32Array(control);
+  const progress = new SharedArrayBuffer(16);
+  const started = new Float64Array(progress); // [1] = 1 once a thread has taken the task
   const raise = () => Atomics.store(flag, 0, 1);
   if (signal.aborted) raise();
   signal.addEventListener("abort", raise, { once: true });
   const watchdog = new AbortController();
-  const timer = setTimeout(() => watchdog.abort(new Error("overrun")), maxWallMs + GRACE_MS);
+  let why: "wait" | "overrun" | null = null;
+  const queuedAt = Date.now();
+  let startedAt = 0;
+  const timer = setInterval(() => {
+    const now = Date.now();
+    if (!startedAt && started[1] === 1) startedAt = now;
+    if (!startedAt && now - queuedAt > MAX_WAIT_MS) (why = "wait"), watchdog.abort();
+    else if (startedAt && now - startedAt > maxWallMs + GRACE_MS) (why = "overrun"), watchdog.abort();
+  }, TICK_MS);
+  timer.unref();
   try {
-    const out = (await apiPool().run({ kind: "simulate-api", input: { value, text }, control, progress: new SharedArrayBuffer(16) }, { signal: watchdog.signal })) as WireResponse;
+    const out = (await apiPool().run({ kind: "simulate-api", input: { value, text }, control, progress }, { signal: watchdog.signal })) as WireResponse;
     return new Response(out.body, { status: out.status, headers: out.headers });
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
-    if (/queue is at limit/i.test(message)) {
-      return apiError(503, "busy", `The simulation service is busy (${MAX_QUEUE} simulations waiting); try again shortly.`, undefined, { "Retry-After": "5" });
-    }
-    if (watchdog.signal.aborted) {
+    if (/queue is at limit/i.test(message)) return busy(`${MAX_QUEUE} simulations waiting`);
+    if (why === "wait") return busy(`no compute thread became free within ${MAX_WAIT_MS / 1000} s`);
+    if (why === "overrun") {
       return apiError(503, "simulation_stopped", `The simulation did not stop at its wall-time budget of ${maxWallMs} ms and its thread was stopped; try a shorter end time or looser tolerances.`);
     }
-    return apiError(500, "simulation_failed", `The simulation thread stopped unexpectedly (${message}); nothing was stored.`);
+    console.error(`simulate API: the compute thread stopped unexpectedly: ${message}`);
+    return apiError(500, "simulation_failed", "The simulation's compute thread stopped unexpectedly; try again.");
   } finally {
-    clearTimeout(timer);
+    clearInterval(timer);
     signal.removeEventListener("abort", raise);
   }
 }

@@ -12,11 +12,11 @@
 import type { Knex } from "knex";
 import { Piscina } from "piscina";
 import { existsSync } from "node:fs";
-import { availableParallelism } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { claimRun, currentServerProcess, endRunWithoutResults, failInterruptedRuns, finishRun, getRun, isCancelRequested, updateProgress } from "../../db/access/runs.server";
 import type { RunTaskInput, RunTaskResult } from "./run-task";
+import { computeThreads } from "./threads.server";
 import type { FitTaskInput, FitTaskResult } from "./fit-task";
 
 export interface ComputeOptions {
@@ -65,10 +65,7 @@ export class ComputeService {
     private readonly db: Knex,
     opts: ComputeOptions = {},
   ) {
-    // COMPUTE_THREADS: set by the production server's supervisor so that its workers together
-    // use about as many simulation threads as the machine has cores (scripts/serve.ts).
-    const fromEnv = Number(process.env.COMPUTE_THREADS);
-    this.maxThreads = opts.maxThreads ?? (Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : Math.max(1, Math.min(4, availableParallelism() - 1)));
+    this.maxThreads = opts.maxThreads ?? computeThreads();
     this.tickMs = opts.tickMs ?? 250;
     this.graceMs = opts.graceMs ?? 15_000;
     const file = opts.workerFile ?? defaultWorkerFile();

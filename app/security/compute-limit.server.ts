@@ -50,7 +50,19 @@ function askSupervisor(key: string, limit: number, now: number): Promise<WindowV
       resolve(v);
     });
     const req: WindowRequest = { type: WINDOW_REQUEST, id, key, limit, now };
-    process.send!(req);
+    const countHere = () => {
+      if (!pending.delete(id)) return;
+      clearTimeout(timer);
+      resolve(local.hit(key, limit, now));
+    };
+    try {
+      // The channel can close under us (the supervisor stopping): count here instead.
+      process.send!(req, undefined, undefined, (err) => {
+        if (err) countHere();
+      });
+    } catch {
+      countHere();
+    }
   });
 }
 
@@ -58,7 +70,7 @@ function askSupervisor(key: string, limit: number, now: number): Promise<WindowV
 export async function computeRateLimit(userId: number, kind: ComputeKind, now = Date.now()): Promise<Response | null> {
   const key = `${kind}:${userId}`;
   const limit = limitFor(kind);
-  const verdict = cluster.isWorker && process.send ? await askSupervisor(key, limit, now) : local.hit(key, limit, now);
+  const verdict = cluster.isWorker && process.send && process.connected ? await askSupervisor(key, limit, now) : local.hit(key, limit, now);
   if (verdict.allowed) return null;
   const retry = Math.max(1, Math.ceil(verdict.retryMs / 1000));
   return apiError(

@@ -254,6 +254,17 @@ export async function failRunsOfServerProcess(db: Knex, serverProcess: string): 
     .update({ ...INTERRUPTED, status_reason: "The server process running it stopped while the run was in progress; start it again.", finished_at: db.fn.now(3) });
 }
 
+/**
+ * Queued and running runs not made by the current production server (whose worker names all
+ * start with `ownPrefix`): left by an earlier server, so failed, with the reason.
+ */
+export async function failRunsOfOtherServers(db: Knex, ownPrefix: string): Promise<number> {
+  return db("runs")
+    .whereIn("status", ["queued", "running"])
+    .andWhere((w) => w.whereNull("server_process").orWhereRaw("LEFT(server_process, ?) <> ?", [ownPrefix.length, ownPrefix]))
+    .update({ ...INTERRUPTED, finished_at: db.fn.now(3) });
+}
+
 /** Runs left queued or running by a server that stopped: failed, with the reason. */
 export async function failInterruptedRuns(db: Knex, olderThan: Date): Promise<number> {
   return db("runs")

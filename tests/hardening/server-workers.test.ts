@@ -65,16 +65,32 @@ describe.skipIf(!process.env.APP_URL)("the production server's worker processes"
   let app: AppServer | undefined;
   let token: string;
   let authorId: number;
+  let leftOver: number[] = [];
+  const conditions = { temperature: { value: 300, unit: "K" }, initial: { A: { value: 1, unit: "mol/L" } }, endTime: { value: 10, unit: "s" } };
+  const snapshot = { format: "saddlebook.mechanism", version: 1, species: [{ id: "A" }, { id: "B" }], steps: [] };
+  /** A run marked running, made as if by the named server process (null: none). */
+  const runOf = async (serverProcess: string | null) => {
+    if (serverProcess) process.env.SADDLEBOOK_SERVER_PROCESS = serverProcess;
+    try {
+      const id = await createRun(t.db, { ownerId: authorId, snapshot, conditions: conditions as never, solver: resolveSolver({}), tEnd: 10 });
+      await t.db("runs").where({ id }).update({ status: "running" });
+      return id;
+    } finally {
+      delete process.env.SADDLEBOOK_SERVER_PROCESS;
+    }
+  };
 
   beforeAll(async () => {
     t = await freshDatabase();
     await seedDemo(t.db);
     authorId = (await t.db("users").where({ email: "author@saddlebook.test" }).first("id")).id;
     token = (await createApiToken(t.db, authorId, "worker test")).token;
+    // Runs left by an earlier server: one from a worker of it, one from a single-process server.
+    leftOver = [await runOf("0badc0de.3"), await runOf(null)];
     app = await startAppServer({
       port: await freePort(),
       quiet: true,
-      env: { DATABASE_URL: t.url, SESSION_SECRET: "worker-test-secret-worker-test", WEB_CONCURRENCY: "2", COMPUTE_RATES_PER_MINUTE: "4" },
+      env: { DATABASE_URL: t.url, SESSION_SECRET: "worker-test-secret-worker-test", WEB_CONCURRENCY: "2", COMPUTE_RATES_PER_MINUTE: "4", NODE_CLUSTER_SCHED_POLICY: "rr" },
     });
     const deadline = Date.now() + 20_000;
     while (workers(app).length < 2 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
@@ -89,6 +105,14 @@ describe.skipIf(!process.env.APP_URL)("the production server's worker processes"
     expect(workers(app!).length).toBe(2);
   });
 
+  it("fails the runs an earlier server left unfinished", async () => {
+    const rows = await t.db("runs").whereIn("id", leftOver).select("status", "failure_code");
+    expect(rows).toEqual([
+      { status: "failed", failure_code: "interrupted" },
+      { status: "failed", failure_code: "interrupted" },
+    ]);
+  });
+
   it("keeps one compute limit for the whole server", async () => {
     const body = JSON.stringify({
       steps: [{ id: "s1", reactants: [{ species: "A", coef: 1 }], products: [{ species: "B", coef: 1 }], reversible: false, barrier: { form: "dG", dG: 80, unit: "kJ/mol", T: 298.15, standardState: "1M" } }],
@@ -97,25 +121,14 @@ describe.skipIf(!process.env.APP_URL)("the production server's worker processes"
     const headers = { Authorization: `Bearer ${token}`, "Content-Type": "application/json" };
     const statuses: number[] = [];
     for (let i = 0; i < 8; i++) statuses.push(await postOnNewConnection(app!.url + "/api/v1/rates", headers, body));
-    // 4 per minute for the server, not 4 per worker (8 would then pass).
+    // 4 per minute for the server, not 4 per worker (8 would then pass). Connections go to the
+    // workers in turn (round-robin scheduling, set above), so both workers answered some.
     expect(statuses.filter((s) => s === 200).length).toBe(4);
     expect(statuses.filter((s) => s === 429).length).toBe(4);
   }, 60_000);
 
   it("replaces a worker that dies and fails only that worker's unfinished runs", async () => {
     const [victim, survivor] = workers(app!);
-    const conditions = { temperature: { value: 300, unit: "K" }, initial: { A: { value: 1, unit: "mol/L" } }, endTime: { value: 10, unit: "s" } };
-    const snapshot = { format: "saddlebook.mechanism", version: 1, species: [{ id: "A" }, { id: "B" }], steps: [] };
-    const runOf = async (serverProcess: string) => {
-      process.env.SADDLEBOOK_SERVER_PROCESS = serverProcess;
-      try {
-        const id = await createRun(t.db, { ownerId: authorId, snapshot, conditions: conditions as never, solver: resolveSolver({}), tEnd: 10 });
-        await t.db("runs").where({ id }).update({ status: "running" });
-        return id;
-      } finally {
-        delete process.env.SADDLEBOOK_SERVER_PROCESS;
-      }
-    };
     const victimRun = await runOf(victim!.name);
     const survivorRun = await runOf(survivor!.name);
 
