@@ -214,6 +214,8 @@ async function run(): Promise<BenchCase[]> {
       extra: {
         rtol: RTOL,
         atol,
+        // the integrator that produced the result ("bdf", or "rosenbrock" after a fallback)
+        method: r.value.value.method ?? "?",
         cpuMsMedian: r.cpuMs,
         firstRunMs: first.value.stats.wallMs,
         massDrift: Math.abs(m1 - m0) / m0,

@@ -30,11 +30,19 @@
  *  - Breakpoints (temperature-program corners): the method stops on them and restarts at order 1.
  *
  * Same signature, options, statistics and typed failures as integrateStiff (rosenbrock.ts).
+ *
+ * Non-negativity: with a loose atol the method needs `nonNegative` (reject steps that take a
+ * component below −atol); simulate() always sets it. Without it, a component that falls below
+ * atol can be driven far negative and the run diverges: Robertson to t = 1e11 with atol 1e-6
+ * ended at y₁ ≈ −4e7 (rtol 1e-2 and 1e-3), and scipy 1.17's BDF on the same problem ends at
+ * y₁ ≈ −3.2e6 (rtol 1e-4). With it, such runs may instead stop with a step-size underflow
+ * (Robertson at atol 1e-6, rtol 1e-3 or 1e-4) where RODAS4 succeeds; simulate()'s automatic
+ * choice then reruns the mechanism with RODAS4 (simulate.ts, FALLBACK_REASONS).
  * Units: t and h in the problem's time unit (s), y in its state unit (mol/L); rtol unitless,
  * atol in state units.
  */
-import type { IntegrateOptions, IntegrationError, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
-import { REASON_CODE, partialResult, setUpRun, startingStep as startingStepFor, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
+import type { IntegrateOptions, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
+import { REASON_CODE, fail, partialResult, setUpRun, startingStep as startingStepFor, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
 
 const MAX_ORDER = 5;
 // Shampine & Reichelt (1997), Table 1: NDF κ for orders 1–4; order 5 is plain BDF (κ = 0).
@@ -106,9 +114,6 @@ export function integrateBDF(
     problem.rhs(tt, yy, dy);
   };
 
-  /** J at (tt, yy); fdBase must hold f(tt, yy) when no analytic Jacobian is given. */
-  const evalJacobian = (tt: number, yy: Float64Array, fdBase: Float64Array) => la.evalJacobian(tt, yy, fdBase);
-
   /** Re-sample the differences D[0..order] for a step size ρ·h (polynomial of degree `order`). */
   const T = new Float64Array((MAX_ORDER + 1) * (MAX_ORDER + 1));
   const P = new Float64Array((MAX_ORDER + 1) * (MAX_ORDER + 1));
@@ -161,9 +166,9 @@ export function integrateBDF(
     if (nonNeg) for (let i = 0; i < n; i++) if (out[i] < 0 && out[i] >= -atol[i]) out[i] = 0;
     return out;
   };
-  const stop = (reason: StopReason, message: string): { ok: false; error: IntegrationError } => {
+  const stop = (reason: StopReason, message: string) => {
     stats.wallMs = now() - wallStart;
-    return { ok: false, error: { code: REASON_CODE[reason], message, reason, partial: partialResult(run, outIdx, t, yCurrent()) } };
+    return fail(reason, REASON_CODE[reason], message, partialResult(run, outIdx, t, yCurrent()));
   };
   const tooSmall = (hh: number, tt: number) => !(hh > 1e-300) || hh < 8 * 2.220446049250313e-16 * Math.abs(tt);
 
@@ -183,7 +188,7 @@ export function integrateBDF(
   let h = startingStep(t, nextStop - t);
   let order = 1;
   for (let i = 0; i < n; i++) D[n + i] = h * f[i];
-  evalJacobian(t, D.subarray(0, n), f);
+  la.evalJacobian(t, D.subarray(0, n), f);
   let jacCurrent = true; // J was evaluated at the current solution
   let luValid = false; // M is factored for the current Jacobian
   let cLU = 1; // c = h/α_k at which M was factored
@@ -359,7 +364,7 @@ export function integrateBDF(
       order = 1;
       orderWanted = 1;
       for (let i = 0; i < n; i++) D[n + i] = h * f[i];
-      evalJacobian(t, D.subarray(0, n), f);
+      la.evalJacobian(t, D.subarray(0, n), f);
       jacCurrent = true;
       luValid = false;
       nEqual = 0;
@@ -393,7 +398,7 @@ export function integrateBDF(
   function refreshJacobian(): void {
     const yc = D.subarray(0, n);
     if (problem.jacobian === undefined) rhs(t, yc, f0);
-    evalJacobian(t, yc, f0);
+    la.evalJacobian(t, yc, f0);
     jacCurrent = true;
     luValid = false;
   }

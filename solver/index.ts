@@ -70,6 +70,7 @@ export {
   type ConversionEvent,
   type ConversionEventRequest,
   type SimulateOptions,
+  type SimulationMethod,
   type SimulationResult,
   type StepRateFunctions,
 } from "./simulate.ts";

@@ -5,7 +5,7 @@
  */
 import type { EngineError, Result } from "./types.ts";
 import type { CompiledModel } from "./model.ts";
-import type { IntegrationError, IntegrationStats, OdeProblem, StepView } from "./ode-problem.ts";
+import { defaultNow, type IntegrationError, type IntegrationOutcome, type IntegrationStats, type OdeProblem, type StepView, type StopReason } from "./ode-problem.ts";
 import { integrateStiff } from "./rosenbrock.ts";
 import { integrateBDF } from "./bdf.ts";
 import { integrateNonStiff } from "./nonstiff.ts";
@@ -42,7 +42,12 @@ export interface SimulateOptions {
   linearSolver?: "auto" | "dense" | "sparse";
   /**
    * Stiff integrator: "rosenbrock" (RODAS4, rosenbrock.ts), "bdf" (variable-order NDF/BDF,
-   * bdf.ts) or "auto" (default): BDF for mechanisms of at least BDF_MIN_SPECIES species.
+   * bdf.ts) or "auto" (default): BDF for mechanisms of at least BDF_MIN_SPECIES species, and
+   * when BDF stops with a step-size underflow, a non-finite solution or a singular iteration
+   * matrix, a rerun from t = 0 with RODAS4 within the remaining step and wall-time budgets
+   * (see FALLBACK_REASONS; the result's `method` and a warning say so). During such a rerun
+   * `onStep` sees the steps again from t = 0; `onProgress` reports only times beyond those
+   * already reported. An explicit "bdf" never falls back.
    */
   stiffMethod?: "auto" | "rosenbrock" | "bdf";
   /** Compute conservation-law drift; default true when the mechanism has ≤ 400 species. */
@@ -82,13 +87,22 @@ export interface SimulationResult {
   /** conc[i][k] = concentration of species i at times[k], mol/L. */
   conc: Float64Array[];
   temperatures: Float64Array; // K at the output times
+  /**
+   * Work of the integration. After an automatic fallback from BDF to RODAS4 the counts and the
+   * wall time cover both attempts.
+   */
   stats: IntegrationStats;
+  /** The integrator that produced the concentrations (always set by simulate()). */
+  method?: SimulationMethod;
   drift: ConservationDrift[];
   maxDrift: number;
   warnings: string[];
   /** One entry per requested conversion event, in request order. */
   events: ConversionEvent[];
 }
+
+/** The integrator behind a result: RODAS4 ("rosenbrock"), NDF/BDF ("bdf") or odex ("nonstiff"). */
+export type SimulationMethod = "rosenbrock" | "bdf" | "nonstiff";
 
 export type SimulationError = EngineError & { reason?: IntegrationError["reason"]; partial?: SimulationResult };
 
@@ -102,6 +116,24 @@ export type SimulationError = EngineError & { reason?: IntegrationError["reason"
  * millisecond there, so small mechanisms keep RODAS4 and the switch sits at 20 species.
  */
 export const BDF_MIN_SPECIES = 20;
+
+/**
+ * BDF failures after which stiffMethod "auto" reruns the mechanism with RODAS4: the ones that say
+ * the method could not follow the solution (not the budgets, not a cancellation).
+ */
+export const FALLBACK_REASONS: readonly StopReason[] = ["step-size-underflow", "non-finite", "singular"];
+
+function sumStats(a: IntegrationStats, b: IntegrationStats): IntegrationStats {
+  return {
+    steps: a.steps + b.steps,
+    accepted: a.accepted + b.accepted,
+    rejected: a.rejected + b.rejected,
+    rhsEvals: a.rhsEvals + b.rhsEvals,
+    jacEvals: a.jacEvals + b.jacEvals,
+    luDecomps: a.luDecomps + b.luDecomps,
+    wallMs: a.wallMs + b.wallMs,
+  };
+}
 
 function bad(code: string, message: string, path?: string): { ok: false; error: SimulationError } {
   return { ok: false, error: path ? { code, message, path } : { code, message } };
@@ -155,7 +187,8 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     evTarget.push(conversionTarget(c0[i], q.conversion));
   }
   const useStiff = (options.method ?? "stiff") !== "nonstiff";
-  const watchers: CrossingWatcher[] = useStiff ? evIndex.map((i, e) => watchDownwardCrossing(nS, i, evTarget[e])) : [];
+  const newWatchers = (): CrossingWatcher[] => (useStiff ? evIndex.map((i, e) => watchDownwardCrossing(nS, i, evTarget[e])) : []);
+  let watchers = newWatchers(); // replaced when a fallback reruns from t = 0
   const userOnStep = options.onStep;
   const onStep =
     watchers.length > 0
@@ -164,6 +197,17 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
           if (userOnStep) userOnStep(v);
         }
       : userOnStep;
+  // progress never goes back, also when a fallback reruns from t = 0
+  const userOnProgress = options.onProgress;
+  let progressed = -Infinity;
+  const onProgress = userOnProgress
+    ? (t: number) => {
+        if (t > progressed) {
+          progressed = t;
+          userOnProgress(t);
+        }
+      }
+    : undefined;
 
   // rate-constant functions in model order
   const fns: StepRateFunctions[] = [];
@@ -232,18 +276,38 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     maxWallMs: options.maxWallMs,
     now: options.now,
     signal: options.signal,
-    onProgress: options.onProgress,
+    onProgress,
     onStep,
     nonNegative: true,
     linearSolver: options.linearSolver,
   };
   const stiffChoice = options.stiffMethod ?? "auto";
   const useBDF = stiffChoice === "bdf" || (stiffChoice === "auto" && nS >= BDF_MIN_SPECIES);
-  const out = !useStiff
+  const now = options.now ?? defaultNow;
+  const wallStart = now();
+  let method: SimulationMethod = !useStiff ? "nonstiff" : useBDF ? "bdf" : "rosenbrock";
+  let out: IntegrationOutcome = !useStiff
     ? integrateNonStiff(problem, 0, c0, options.tEnd, intOpts)
     : useBDF
       ? integrateBDF(problem, 0, c0, options.tEnd, intOpts)
       : integrateStiff(problem, 0, c0, options.tEnd, intOpts);
+  const extraWarnings: string[] = [];
+  let spent: IntegrationStats | null = null; // the failed BDF attempt's work, after a fallback
+  if (!out.ok && method === "bdf" && stiffChoice === "auto" && !rateProblem && (FALLBACK_REASONS as readonly string[]).includes(out.error.reason)) {
+    const first = out.error;
+    const firstStats = first.partial?.stats ?? { steps: 0, accepted: 0, rejected: 0, rhsEvals: 0, jacEvals: 0, luDecomps: 0, wallMs: 0 };
+    const stepsLeft = (options.maxSteps ?? 100000) - firstStats.steps;
+    const wallLeft = options.maxWallMs === undefined ? undefined : options.maxWallMs - (now() - wallStart);
+    if (stepsLeft >= 1 && (wallLeft === undefined || wallLeft > 0)) {
+      watchers = newWatchers();
+      spent = firstStats;
+      method = "rosenbrock";
+      out = integrateStiff(problem, 0, c0, options.tEnd, { ...intOpts, maxSteps: stepsLeft, maxWallMs: wallLeft });
+      extraWarnings.push(
+        `The BDF integrator stopped (${first.code}: ${first.message.replace(/\.$/, "")}); the run was repeated from t = 0 with RODAS4, which produced these results.`,
+      );
+    }
+  }
 
   const doLaws = options.conservation ?? nS <= 400;
   const laws = doLaws ? model.conservationLaws() : [];
@@ -272,19 +336,20 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
       drift.push({ law: w, maxRelDrift: m });
       if (m > maxDrift) maxDrift = m;
     }
-    const warnings = [...model.warnings];
+    const warnings = [...model.warnings, ...extraWarnings];
     if (maxDrift > 100 * (options.rtol ?? 1e-6)) warnings.push(`Conservation drift reached ${maxDrift.toExponential(2)} (relative), above 100 × rtol.`);
     const events: ConversionEvent[] = evReq.map((q, e) => {
       const base = { species: q.species, conversion: q.conversion, target: evTarget[e] };
       if (useStiff) return { ...base, time: watchers[e].time, located: "dense-output" as const };
       return { ...base, time: gridCrossing(times, conc[evIndex[e]], evTarget[e]), located: "output-grid" as const };
     });
-    return { speciesIds: model.speciesIds, times, conc, temperatures: temps, stats, drift, maxDrift, warnings, events };
+    const allStats = spent ? sumStats(spent, stats) : stats;
+    return { speciesIds: model.speciesIds, times, conc, temperatures: temps, stats: allStats, method, drift, maxDrift, warnings, events };
   };
   if (rateProblem) return { ok: false, error: rateProblem };
   if (!out.ok) {
     const e = out.error;
-    const err: SimulationError = { code: e.code, message: e.message, reason: e.reason };
+    const err: SimulationError = { code: e.code, message: spent ? `${e.message} (RODAS4, rerun after the BDF integrator had stopped)` : e.message, reason: e.reason };
     if (e.path) err.path = e.path;
     if (e.partial) err.partial = assemble(e.partial.times, e.partial.states, e.partial.stats);
     return { ok: false, error: err };

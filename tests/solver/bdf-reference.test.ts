@@ -1,29 +1,13 @@
 import { describe, expect, it } from "vitest";
 import { integrateBDF } from "../../solver/bdf.ts";
-import { compileMechanism, type MechanismInput } from "../../solver/model.ts";
-import { simulate, type SimulateOptions } from "../../solver/simulate.ts";
+import { BDF_MIN_SPECIES, simulate, type SimulateOptions, type SimulationError } from "../../solver/simulate.ts";
+import type { EngineError } from "../../solver/types.ts";
 import type { OdeProblem, StepView } from "../../solver/ode-problem.ts";
 import { stiffNetwork } from "../../bench/stiff-network.ts";
-import { HIRES_REF, HIRES_T_END, HIRES_Y0, ROBERTSON_REFS, ROBERTSON_Y0, hires, relErr, robertson } from "./reference-problems.ts";
+import { HIRES_REF, HIRES_T_END, HIRES_Y0, ROBERTSON_REFS, ROBERTSON_REF_1E11, ROBERTSON_Y0, hires, relErr, robertson } from "./reference-problems.ts";
+import { k, model, runWith, rx, sp } from "./mechanism-helpers.ts";
 
-const sp = (...ids: string[]) => ids.map((id) => ({ id }));
-const rx = (id: string, r: [string, number][], p: [string, number][], reversible = false) => ({
-  id,
-  reactants: r.map(([species, coef]) => ({ species, coef })),
-  products: p.map(([species, coef]) => ({ species, coef })),
-  reversible,
-});
-const k = (v: number) => () => v;
-function model(m: MechanismInput) {
-  const r = compileMechanism(m);
-  if (!r.ok) throw new Error(r.error.message);
-  return r.value;
-}
-function run(m: ReturnType<typeof model>, o: Partial<SimulateOptions> & Pick<SimulateOptions, "rateConstants" | "initial" | "tEnd">) {
-  const r = simulate(m, { temperature: { kind: "isothermal", T: 298.15 }, rtol: 1e-9, atol: 1e-14, stiffMethod: "bdf", ...o });
-  if (!r.ok) throw new Error(r.error.message);
-  return r.value;
-}
+const run = runWith({ stiffMethod: "bdf" });
 
 /** Linear first-order chain A → B → C as a generic ODE with a dense Jacobian. */
 function chain(k1: number, k2: number): OdeProblem {
@@ -248,9 +232,11 @@ describe("simulate() on a generated stiff network: BDF path against RODAS4", () 
     const auto = simulate(m, { ...base, grid: { kind: "times", times: [net.tEnd] } });
     expect(auto.ok).toBe(true);
     if (auto.ok) expect(auto.value.stats.jacEvals).toBeLessThan(auto.value.stats.accepted / 3);
+    if (auto.ok) expect(auto.value.method).toBe("bdf");
     const small = model({ species: sp("A", "B"), reactions: [rx("1", [["A", 1]], [["B", 1]], true)] });
     const r = run(small, { rateConstants: [{ kf: k(3), kr: k(1) }], initial: { A: 1 }, tEnd: 5, stiffMethod: "auto" });
     expect(r.stats.jacEvals).toBe(r.stats.accepted);
+    expect(r.method).toBe("rosenbrock");
   });
 
   it("dense and sparse LU paths give the same answer", () => {
@@ -263,5 +249,94 @@ describe("simulate() on a generated stiff network: BDF path against RODAS4", () 
       const y = b.value.conc[i][0];
       if (y > 1e-9) expect(relErr(a.value.conc[i][0], y)).toBeLessThan(1e-6);
     }
+  });
+});
+
+describe("simulate() 'auto': RODAS4 takes over when BDF stops", () => {
+  // Robertson's problem (Robertson 1966; Hairer & Wanner II §IV.1: A → B k = 0.04, 2B → B + C
+  // k = 3e7, B + C → A + C k = 1e4) with 17 slow isomerisations X1 → … → X17 (1e-13 s⁻¹, taking
+  // no part in the fast chemistry) to reach 20 species, so that "auto" picks BDF. At atol 1e-6
+  // mol/L BDF stops with a step-size underflow on it, RODAS4 solves it.
+  /** The partial result a failed simulate() carries (SimulationError). */
+  const partialOf = (e: EngineError) => (e as SimulationError).partial;
+  const inert = Array.from({ length: 17 }, (_, i) => `X${i + 1}`);
+  const reactions = [rx("r1", [["A", 1]], [["B", 1]]), rx("r2", [["B", 2]], [["B", 1], ["C", 1]]), rx("r3", [["B", 1], ["C", 1]], [["A", 1], ["C", 1]])];
+  for (let i = 1; i < inert.length; i++) reactions.push(rx(`x${i}`, [[`X${i}`, 1]], [[`X${i + 1}`, 1]]));
+  const m = model({ species: sp("A", "B", "C", ...inert), reactions });
+  const rc = [0.04, 3e7, 1e4, ...inert.slice(1).map(() => 1e-13)].map((v) => ({ kf: k(v) }));
+  const base: SimulateOptions = {
+    rateConstants: rc,
+    temperature: { kind: "isothermal", T: 298.15 },
+    initial: { A: 1, X1: 0.5 },
+    tEnd: 1e11,
+    atol: 1e-6,
+    conversionEvents: [{ species: "A", conversion: 0.5 }],
+  };
+
+  for (const rtol of [1e-2, 1e-3, 1e-4]) {
+    it(`rtol ${rtol}: explicit "bdf" fails with a typed error; "auto" falls back and agrees with RODAS4`, () => {
+      expect(m.nSpecies).toBeGreaterThanOrEqual(BDF_MIN_SPECIES);
+      const bdf = simulate(m, { ...base, rtol, stiffMethod: "bdf" });
+      expect(bdf.ok).toBe(false);
+      if (bdf.ok) return;
+      expect(bdf.error.code).toBe("STEP_SIZE_UNDERFLOW");
+      expect((bdf.error as SimulationError).reason).toBe("step-size-underflow");
+      expect(partialOf(bdf.error)?.method).toBe("bdf");
+
+      const progress: number[] = [];
+      const auto = simulate(m, { ...base, rtol, onProgress: (t) => progress.push(t) });
+      const ros = simulate(m, { ...base, rtol, stiffMethod: "rosenbrock" });
+      expect(auto.ok && ros.ok).toBe(true);
+      if (!auto.ok || !ros.ok) return;
+      expect(auto.value.method).toBe("rosenbrock");
+      expect(ros.value.method).toBe("rosenbrock");
+      expect(auto.value.warnings.some((w) => /BDF integrator stopped.*RODAS4/.test(w))).toBe(true);
+      expect(ros.value.warnings.some((w) => /RODAS4/.test(w))).toBe(false);
+      // the rerun is the RODAS4 run: same values at every output time, same event time
+      for (let i = 0; i < m.nSpecies; i++) {
+        for (let q = 0; q < ros.value.times.length; q++) expect(auto.value.conc[i][q]).toBe(ros.value.conc[i][q]);
+      }
+      expect(auto.value.events[0].time).toBe(ros.value.events[0].time);
+      // statistics cover both attempts
+      expect(auto.value.stats.steps).toBe(ros.value.stats.steps + partialOf(bdf.error)!.stats.steps);
+      // progress never goes back
+      for (let q = 1; q < progress.length; q++) expect(progress[q]).toBeGreaterThan(progress[q - 1]);
+      expect(progress[progress.length - 1]).toBe(1e11);
+      // against the Bari test-set reference at t = 1e11 (reference-problems.ts): C to within
+      // 10·atol; A (≈ 2.1e-8 mol/L) lies below atol, so only |A − A_ref| ≤ atol says anything
+      const last = ros.value.times.length - 1;
+      expect(Math.abs(ros.value.conc[2][last] - ROBERTSON_REF_1E11[2])).toBeLessThan(1e-5);
+      expect(Math.abs(ros.value.conc[0][last] - ROBERTSON_REF_1E11[0])).toBeLessThan(1e-6);
+    });
+  }
+
+  it("the rerun gets only the steps BDF left over", () => {
+    const bdf = simulate(m, { ...base, rtol: 1e-3, stiffMethod: "bdf" });
+    expect(bdf.ok).toBe(false);
+    if (bdf.ok) return;
+    const used = partialOf(bdf.error)!.stats.steps;
+    const r = simulate(m, { ...base, rtol: 1e-3, maxSteps: used + 5 });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.error.code).toBe("BUDGET_STEPS");
+    expect(r.error.message).toMatch(/RODAS4/);
+    expect(partialOf(r.error)?.method).toBe("rosenbrock");
+    expect(partialOf(r.error)!.stats.steps).toBe(used + 5);
+  });
+
+  it("the rerun gets only the wall time BDF left over (a clock that ticks 1 ms per reading)", () => {
+    const counting = () => {
+      let ticks = 0;
+      return () => ticks++;
+    };
+    const clock = counting();
+    const bdf = simulate(m, { ...base, rtol: 1e-3, stiffMethod: "bdf", now: clock });
+    expect(bdf.ok).toBe(false);
+    const used = clock(); // readings BDF took
+    const r = simulate(m, { ...base, rtol: 1e-3, now: counting(), maxWallMs: used + 20 });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.error.code).toBe("BUDGET_TIME");
+    expect(partialOf(r.error)?.method).toBe("rosenbrock");
   });
 });
