@@ -21,8 +21,6 @@
 import type { IntegrateOptions, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
 import { REASON_CODE, fail, partialResult, setUpRun, startingStep, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
 
-export { validateIntegrationInput } from "./integrator-common.ts";
-
 // RODAS4 coefficients, Hairer & Wanner II (1996), transformed form.
 const GAMMA = 0.25;
 const C2 = 0.386, C3 = 0.21, C4 = 0.63;
