@@ -15,15 +15,8 @@ import { compileMechanism, type MechanismInput } from "../../solver/model.ts";
 import { simulate, type SimulateOptions } from "../../solver/simulate.ts";
 import { barrierSensitivities, degreeOfRateControl, halfLife, massBalanceReport, timesToConversion, yieldsAndSelectivity } from "../../solver/analysis.ts";
 import type { Result } from "../../solver/types.ts";
+import { k as kc, rx, sp } from "./mechanism-helpers.ts";
 
-const sp = (...ids: string[]) => ids.map((id) => ({ id }));
-const rx = (id: string, r: [string, number][], p: [string, number][], reversible = false) => ({
-  id,
-  reactants: r.map(([species, coef]) => ({ species, coef })),
-  products: p.map(([species, coef]) => ({ species, coef })),
-  reversible,
-});
-const kc = (v: number) => () => v;
 function get<T>(r: Result<T>): T {
   if (!r.ok) throw new Error(`${r.error.code}: ${r.error.message}`);
   return r.value;

@@ -1,19 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { compileMechanism, type MechanismInput } from "../../solver/model.ts";
+import { model as compile, rx, sp } from "./mechanism-helpers.ts";
 
-const sp = (...ids: string[]) => ids.map((id) => ({ id }));
-const rx = (id: string, r: [string, number][], p: [string, number][], reversible = false) => ({
-  id,
-  reactants: r.map(([species, coef]) => ({ species, coef })),
-  products: p.map(([species, coef]) => ({ species, coef })),
-  reversible,
-});
-
-function compile(m: MechanismInput) {
-  const r = compileMechanism(m);
-  if (!r.ok) throw new Error(r.error.message);
-  return r.value;
-}
 
 describe("mass-action model", () => {
   it("builds rhs with the IUPAC rate convention (2A → P: d[A]/dt = −2k[A]²; IUPAC Green Book)", () => {

@@ -1,27 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { expm, matrix, multiply } from "mathjs";
-import { compileMechanism, type MechanismInput } from "../../solver/model.ts";
-import { simulate, type SimulateOptions } from "../../solver/simulate.ts";
 import { watchDownwardCrossing } from "../../solver/output-grid.ts";
+import { k, model, run, rx, sp } from "./mechanism-helpers.ts";
 
-const sp = (...ids: string[]) => ids.map((id) => ({ id }));
-const rx = (id: string, r: [string, number][], p: [string, number][], reversible = false) => ({
-  id,
-  reactants: r.map(([species, coef]) => ({ species, coef })),
-  products: p.map(([species, coef]) => ({ species, coef })),
-  reversible,
-});
-const k = (v: number) => () => v;
-function model(m: MechanismInput) {
-  const r = compileMechanism(m);
-  if (!r.ok) throw new Error(r.error.message);
-  return r.value;
-}
-function run(m: ReturnType<typeof model>, o: Partial<SimulateOptions> & Pick<SimulateOptions, "rateConstants" | "initial" | "tEnd">) {
-  const r = simulate(m, { temperature: { kind: "isothermal", T: 298.15 }, rtol: 1e-9, atol: 1e-14, ...o });
-  if (!r.ok) throw new Error(r.error.message);
-  return r.value;
-}
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
 
 describe("simulate against analytic solutions", () => {
