@@ -294,6 +294,7 @@ export async function answerSimulate(value: unknown, text: string, signal?: { re
     rateConstants: rateTable,
     analysis: summary.value,
     statistics: {
+      integrator: res.method,
       steps: res.stats.steps,
       accepted: res.stats.accepted,
       rejected: res.stats.rejected,

@@ -78,6 +78,8 @@ export interface RunAnalysis {
 
 export interface RunStatistics {
   method: string;
+  /** The integrator that produced the result: "rosenbrock", "bdf" or "nonstiff" (absent on runs stored before it was recorded). */
+  integrator?: string;
   steps: number;
   accepted: number;
   rejected: number;
@@ -231,6 +233,7 @@ export function runTask(input: RunTaskInput, hooks: RunHooks = {}): RunTaskResul
 
   const statistics: RunStatistics = {
     method: s.method,
+    integrator: res.method,
     steps: res.stats.steps,
     accepted: res.stats.accepted,
     rejected: res.stats.rejected,

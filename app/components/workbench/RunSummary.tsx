@@ -2,6 +2,13 @@
 import type { RunAnalysis, RunStatistics } from "~/compute/run-task";
 import { duration, num, pct } from "./format";
 
+/** How each integrator is named on the summary (solver/simulate.ts SimulationMethod). */
+const INTEGRATOR_LABEL: Record<string, string> = {
+  rosenbrock: "stiff (RODAS4, Rosenbrock)",
+  bdf: "stiff (variable-order BDF)",
+  nonstiff: "non-stiff (explicit extrapolation)",
+};
+
 export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis: RunAnalysis; statistics: RunStatistics; warnings: string[] | null }) {
   const present = Object.entries(a.species).filter(([, v]) => v.initial > 0);
   const drc = a.rateControl ? Object.entries(a.rateControl.degree).sort((x, y) => Math.abs(y[1]) - Math.abs(x[1])) : [];
@@ -111,7 +118,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
             <FragmentRow key={e.element} k={`  ${e.element}`} v={`${num(e.maxRelDrift, 2)}`} />
           ))}
           <dt>method</dt>
-          <dd>{s.method === "stiff" ? "stiff (Rosenbrock)" : "non-stiff (explicit)"}</dd>
+          <dd>{INTEGRATOR_LABEL[s.integrator ?? ""] ?? (s.method === "stiff" ? "stiff (Rosenbrock)" : "non-stiff (explicit)")}</dd>
           <dt>steps</dt>
           <dd className="num">
             {s.accepted} accepted, {s.rejected} rejected
