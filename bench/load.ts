@@ -188,11 +188,12 @@ async function main() {
       const { r, p50, p95, p99 } = await hammer(appUrl, { connections: CONNECTIONS, duration: memorySeconds, requests: mixed });
       clearInterval(sampler);
       samples.push({ s: Math.round((Date.now() - t0) / 1000), rssMiB: Math.round(treeRssMiB(pid)) });
-      // Growth over the second half of the run (after warm-up), MiB per minute, by least squares.
-      const late = samples.filter((x) => x.s >= memorySeconds / 2);
-      const mx = late.reduce((a, x) => a + x.s, 0) / late.length, my = late.reduce((a, x) => a + x.rssMiB, 0) / late.length;
-      const sxx = late.reduce((a, x) => a + (x.s - mx) ** 2, 0), sxy = late.reduce((a, x) => a + (x.s - mx) * (x.rssMiB - my), 0);
-      const slope = sxx > 0 ? (sxy / sxx) * 60 : NaN;
+      // Steadiness: the mean of the second half of the samples against the first half's (MiB),
+      // and the range over the whole run.
+      const half = Math.floor(samples.length / 2);
+      const mean = (xs: typeof samples) => xs.reduce((a, x) => a + x.rssMiB, 0) / xs.length;
+      const halfToHalf = Math.round(mean(samples.slice(half)) - mean(samples.slice(0, half)));
+      const rss = samples.map((x) => x.rssMiB);
       console.log(
         JSON.stringify({
           case: "memory run (all five requests in turn)",
@@ -204,10 +205,11 @@ async function main() {
           errors: r.errors + r.timeouts,
           non2xx: r.non2xx,
           rssMiB: samples,
-          secondHalfGrowthMiBPerMin: Math.round(slope * 10) / 10,
+          secondHalfMinusFirstHalfMiB: halfToHalf,
+          rangeMiB: [Math.min(...rss), Math.max(...rss)],
         }),
       );
-      console.log(`\nmemory run ${memorySeconds} s: ${r.requests.total} requests, ${r.errors + r.timeouts} errors, ${r.non2xx} non-2xx; RSS MiB ${samples.map((x) => x.rssMiB).join(" → ")}; second-half growth ${slope.toFixed(1)} MiB/min`);
+      console.log(`\nmemory run ${memorySeconds} s: ${r.requests.total} requests, ${r.errors + r.timeouts} errors, ${r.non2xx} non-2xx; RSS MiB ${rss.join(" → ")}; range ${Math.min(...rss)}–${Math.max(...rss)}, second half ${halfToHalf >= 0 ? "+" : ""}${halfToHalf} MiB against the first`);
     }
   } finally {
     await stopApp();
