@@ -28,7 +28,7 @@ import type { TemperatureProgram } from "../../solver/temperature-program";
 import type { OutputGrid } from "../../solver/output-grid";
 import { RATE_CONSTANT_UNITS, concentrationToMolPerL, timeToSeconds, type TimeUnit } from "../../solver/units";
 import type { Result, Species } from "../../solver/types";
-import { engineFailure, invalidBody, jsonResponse, readJsonBody, zodFields } from "./json-request.server";
+import { engineFailure, invalidBody, jsonResponse, zodFields } from "./json-request.server";
 import { TemperatureSchema, TimeUnitSchema, requestPath, toKelvin } from "./compute-common.server";
 import { apiError } from "./errors.server";
 
@@ -166,13 +166,6 @@ function analysis(model: CompiledModel, species: Species[], res: SimulationResul
     out.yields = report.value;
   }
   return { ok: true as const, value: out };
-}
-
-/** The request on this thread: read and check the body, then simulate (tests, scripts). */
-export async function handleSimulate(request: Request): Promise<Response> {
-  const body = await readJsonBody(request);
-  if (!body.ok) return body.response;
-  return answerSimulate(body.value, body.text, request.signal);
 }
 
 /**

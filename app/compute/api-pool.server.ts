@@ -46,11 +46,11 @@ function apiPool(): Piscina {
 const busy = (why: string) => apiError(503, "busy", `The simulation service is busy (${why}); try again shortly.`, undefined, { "Retry-After": "5" });
 
 /**
- * Answers a simulate API body (already read and parsed) in a compute thread.
+ * Answers a simulate API body (already read, and known to parse as JSON) in a compute thread.
  * @param maxWallMs the API's wall-time cap, ms (the engine stops itself there; the thread is
  *   terminated GRACE_MS after that, counted from the start of the simulation, if it has not)
  */
-export async function simulateInThread(value: unknown, text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
+export async function simulateInThread(text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
   const control = new SharedArrayBuffer(4);
   const flag = new Int32Array(control);
   const progress = new SharedArrayBuffer(16);
@@ -70,7 +70,9 @@ export async function simulateInThread(value: unknown, text: string, signal: Abo
   }, TICK_MS);
   timer.unref();
   try {
-    const out = (await apiPool().run({ kind: "simulate-api", input: { value, text }, control, progress }, { signal: watchdog.signal })) as WireResponse;
+    // Only the text crosses to the thread (parsed again there): copying a parsed value between
+    // threads recurses through it, and a deeply nested body would overflow that copy.
+    const out = (await apiPool().run({ kind: "simulate-api", input: { text }, control, progress }, { signal: watchdog.signal })) as WireResponse;
     return new Response(out.body, { status: out.status, headers: out.headers });
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);

@@ -21,7 +21,7 @@ export default async function computeTask({ kind = "run", input, progress, contr
     // The stateless simulate API: the answer travels back as status, headers and body text.
     new Float64Array(progress)[1] = 1; // started (the caller's watchdog counts from here)
     simulateApi ??= await tsImport("../api/compute-simulate.server.ts", import.meta.url);
-    const res = await simulateApi.answerSimulate(input.value, input.text, signal);
+    const res = await simulateApi.answerSimulate(JSON.parse(input.text), input.text, signal);
     return { status: res.status, headers: [...res.headers], body: await res.text() };
   }
   const prog = new Float64Array(progress);

@@ -20,5 +20,5 @@ export async function action({ request }: Route.ActionArgs) {
   if (limited) return limited;
   const body = await readJsonBody(request);
   if (!body.ok) return body.response;
-  return simulateInThread(body.value, body.text, request.signal, SIMULATE_MAX_WALL_MS);
+  return simulateInThread(body.text, request.signal, SIMULATE_MAX_WALL_MS);
 }

@@ -3,11 +3,21 @@
  * get random JSON, malformed text, huge and non-finite numbers, deep nesting, long strings,
  * unicode and HTML/SQL text, and mutations of valid bodies. Every answer is either a 200
  * with finite numbers only, or a 4xx with the API's error body; nothing throws, nothing 5xx.
+ * The simulate bodies go through the route itself (body read here, simulation in a compute
+ * thread), as in the served app.
  */
-import { describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it, vi } from "vitest";
 import fc from "fast-check";
 import { handleRates } from "../../app/api/compute-rates.server";
-import { handleSimulate } from "../../app/api/compute-simulate.server";
+import { action as simulateAction } from "../../app/routes/api.v1.simulate";
+import { closeApiPool } from "../../app/compute/api-pool.server";
+
+vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
+// The per-user simulation limit is not under test here.
+process.env.COMPUTE_SIMULATIONS_PER_MINUTE = "100000000";
+afterAll(() => closeApiPool());
+const simulateRoute = (request: Request) =>
+  simulateAction({ request, params: {}, context: {} } as unknown as Parameters<typeof simulateAction>[0]) as Promise<Response>;
 
 // A fixed seed keeps CI reproducible; change it locally to explore further inputs.
 fc.configureGlobal({ seed: 20261202 });
@@ -79,14 +89,14 @@ const validSimulate = {
 describe("compute API bodies under bad input", () => {
   it("the valid bases are accepted (so mutations test the validators, not a broken base)", async () => {
     expect((await call(handleRates, JSON.stringify(validRates))).status).toBe(200);
-    expect((await call(handleSimulate, JSON.stringify(validSimulate))).status).toBe(200);
+    expect((await call(simulateRoute, JSON.stringify(validSimulate))).status).toBe(200);
   });
 
   it("random JSON values", async () => {
     await fc.assert(
       fc.asyncProperty(fc.jsonValue({ maxDepth: 4 }), async (v) => {
         expectSane(await call(handleRates, JSON.stringify(v)));
-        expectSane(await call(handleSimulate, JSON.stringify(v)));
+        expectSane(await call(simulateRoute, JSON.stringify(v)));
       }),
       { numRuns: 150 },
     );
@@ -118,7 +128,7 @@ describe("compute API bodies under bad input", () => {
         const body = mutate(validSimulate, path, replacement) as any;
         // Keep each case short: the wall-time budget itself is tested elsewhere.
         if (body && typeof body === "object" && !Array.isArray(body)) body.solver = { wallTimeMs: 300 };
-        expectSane(await call(handleSimulate, JSON.stringify(body)));
+        expectSane(await call(simulateRoute, JSON.stringify(body)));
       }),
       { numRuns: 200 },
     );
@@ -128,7 +138,7 @@ describe("compute API bodies under bad input", () => {
     const deep = "[".repeat(100_000) + "]".repeat(100_000);
     expectSane(await call(handleRates, deep));
     const deepObj = '{"a":'.repeat(20_000) + "1" + "}".repeat(20_000);
-    expectSane(await call(handleSimulate, deepObj));
+    expectSane(await call(simulateRoute, deepObj));
     const big = JSON.stringify({ ...validRates, pad: "x".repeat(2_000_000) });
     const r = await call(handleRates, big);
     expect(r.status).toBe(413);
