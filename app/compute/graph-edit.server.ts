@@ -1,15 +1,15 @@
 /**
  * Applies a workbench graph edit through the mechanisms data layer: reads the current snapshot,
- * makes the change, and saves it with updateMechanism (based on the version the user edited,
+ * makes the change, and saves it with updateMechanismSteps (based on the version the user edited,
  * so a stale save is a ConflictError and nothing is written). Authorization: mechanism.write
  * through the policy module.
  */
 import type { Knex } from "knex";
 import { data } from "react-router";
 import { assertCan, Forbidden, type Actor } from "~/auth/policy.server";
-import { getMechanism, owned, updateMechanism } from "../../db/access/mechanisms.server";
+import { getMechanism, owned, updateMechanismSteps } from "../../db/access/mechanisms.server";
 import { ConflictError, InputError, NotFoundError } from "../../db/access/library-errors";
-import type { MechanismUpdate } from "~/components/library/step-schema";
+import { entryAsInput } from "~/components/library/step-schema";
 import { GraphEditFormSchema, firstIssue } from "~/components/workbench/graph-edit-schema";
 
 export async function applyGraphEdit(db: Knex, actor: Actor, id: number, raw: unknown): Promise<{ version: number }> {
@@ -18,9 +18,7 @@ export async function applyGraphEdit(db: Knex, actor: Actor, id: number, raw: un
   const { edit, message, baseVersion } = parsed.data;
   const d = await getMechanism(db, actor, id);
   assertCan(actor, { do: "mechanism.write", object: owned(d.mechanism) }, "Only the owner can change this mechanism; fork it to make your own copy.");
-  const steps: NonNullable<MechanismUpdate["steps"]> = d.snapshot.steps.map((e) =>
-    e.kind === "library" ? { kind: "library", key: e.key, stepVersionId: e.stepVersionId } : { kind: "local", key: e.key, step: e.step, ...(e.fromStepVersionId ? { fromStepVersionId: e.fromStepVersionId } : {}) },
-  );
+  const steps = d.snapshot.steps.map(entryAsInput);
   const at = (key: string) => {
     const i = d.snapshot.steps.findIndex((e) => e.key === key);
     if (i < 0) throw new InputError(`The step "${key}" is not in the current version; reload the workbench.`, { key: "Unknown step." });
@@ -39,16 +37,7 @@ export async function applyGraphEdit(db: Knex, actor: Actor, id: number, raw: un
     if (!offer) throw new InputError("That step has no newer approved version on offer; reload the workbench.", { key: "No update." });
     steps[i] = { kind: "library", key: edit.key, stepVersionId: offer.stepVersionId };
   }
-  return updateMechanism(db, actor, id, {
-    name: d.version.name,
-    description: d.mechanism.description ?? undefined,
-    visibility: d.mechanism.visibility,
-    groupId: d.mechanism.group_id,
-    species: d.snapshot.species.map((s) => ({ key: s.key, speciesId: s.speciesId })),
-    steps,
-    baseVersion,
-    message,
-  });
+  return updateMechanismSteps(db, actor, d, steps, baseVersion, message);
 }
 
 export type GraphEditFailure = { intent: "graph-edit"; ok: false; message: string; fields: Record<string, string>; conflict?: ConflictError["latest"] };

@@ -6,7 +6,8 @@ import { getOptionalUser, requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { getDb } from "../../db/client.server";
-import { forkMechanism, getMechanism, updateMechanism, type SnapshotEntry } from "../../db/access/mechanisms.server";
+import { forkMechanism, getMechanism, updateMechanism, updateMechanismSteps } from "../../db/access/mechanisms.server";
+import { entryAsInput } from "~/components/library/step-schema";
 import { rateAt } from "../../db/access/mechanism-diff";
 import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
 import { notifyFork } from "~/api/library-mail.server";
@@ -106,20 +107,9 @@ export async function action({ request, params }: Route.ActionArgs) {
       const key = String(form.get("key") ?? "");
       const offer = d.updates[key];
       if (!offer) throw new InputError("That update is no longer on offer; reload the page.");
-      const steps = d.snapshot.steps.map((e: SnapshotEntry) =>
-        e.kind === "library" ? { kind: "library" as const, key: e.key, stepVersionId: e.key === key ? offer.stepVersionId : e.stepVersionId } : { kind: "local" as const, key: e.key, step: e.step, ...(e.fromStepVersionId ? { fromStepVersionId: e.fromStepVersionId } : {}) },
-      );
+      const steps = d.snapshot.steps.map((e) => entryAsInput(e.kind === "library" && e.key === key ? { ...e, stepVersionId: offer.stepVersionId } : e));
       const label = d.resolved.steps.find((s) => s.key === key)?.label ?? key;
-      await updateMechanism(db, user, id, {
-        name: d.version.name,
-        description: d.mechanism.description ?? undefined,
-        visibility: d.mechanism.visibility,
-        groupId: d.mechanism.group_id,
-        species: d.snapshot.species.map((s) => ({ key: s.key, speciesId: s.speciesId })),
-        steps,
-        baseVersion: Number(form.get("baseVersion")),
-        message: `Updated "${label}" to library version ${offer.number}.`,
-      });
+      await updateMechanismSteps(db, user, d, steps, Number(form.get("baseVersion")), `Updated "${label}" to library version ${offer.number}.`);
       return redirect(`/mechanisms/${id}`);
     }
     return { ok: false as const, message: "Unknown action.", fields: {} };

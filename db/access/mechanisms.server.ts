@@ -18,6 +18,7 @@ import {
   fieldErrors,
   speciesIdOfKey,
   speciesKey,
+  type MechanismEntryInput,
   type Visibility,
 } from "../../app/components/library/step-schema";
 import {
@@ -424,6 +425,31 @@ export interface MechanismDetail {
   forks: Array<{ id: number; name: string; owner: string; forked_from_version: number | null }>;
   canWrite: boolean;
   canFork: boolean;
+}
+
+/**
+ * Saves a new version of a mechanism read with getMechanism that changes only its steps: name,
+ * description, visibility, group and species stay as they are. Same checks as updateMechanism
+ * (a stale baseVersion is a ConflictError and nothing is written).
+ */
+export function updateMechanismSteps(
+  db: Knex,
+  actor: Actor,
+  d: MechanismDetail,
+  steps: MechanismEntryInput[],
+  baseVersion: number,
+  message: string,
+): Promise<{ version: number }> {
+  return updateMechanism(db, actor, d.mechanism.id, {
+    name: d.version.name,
+    description: d.mechanism.description ?? undefined,
+    visibility: d.mechanism.visibility,
+    groupId: d.mechanism.group_id,
+    species: d.snapshot.species.map((s) => ({ key: s.key, speciesId: s.speciesId })),
+    steps,
+    baseVersion,
+    message,
+  });
 }
 
 export async function getMechanism(db: Knex, actor: Actor | null, id: number, versionNumber?: number): Promise<MechanismDetail> {

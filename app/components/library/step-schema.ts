@@ -113,6 +113,23 @@ export const MechanismEntryInputSchema = z.discriminatedUnion("kind", [
 ]);
 export type MechanismEntryInput = z.infer<typeof MechanismEntryInputSchema>;
 
+/**
+ * An entry of a mechanism written back into an update as it stands: the same library pin, or
+ * the same local step with the library version it came from (editor entries and stored
+ * snapshot entries alike).
+ */
+export function entryAsInput(e: {
+  key: string;
+  kind: "library" | "local";
+  stepVersionId?: number;
+  step?: Extract<MechanismEntryInput, { kind: "local" }>["step"];
+  fromStepVersionId?: number;
+}): MechanismEntryInput {
+  return e.kind === "library"
+    ? { kind: "library", key: e.key, stepVersionId: e.stepVersionId! }
+    : { kind: "local", key: e.key, step: e.step!, ...(e.fromStepVersionId ? { fromStepVersionId: e.fromStepVersionId } : {}) };
+}
+
 export const MechanismSpeciesInputSchema = z.strictObject({
   key: z.string().min(1).max(200).optional().meta({ description: "Id used by the mechanism's local steps; default s<speciesId>." }),
   speciesId: z.int().positive(),

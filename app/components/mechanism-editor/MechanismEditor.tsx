@@ -10,6 +10,8 @@ import { CsrfInput } from "../CsrfInput";
 import type { DocumentStep } from "../../../solver/exchange-format";
 import { rateAt } from "../../../db/access/mechanism-diff";
 import { sig } from "../library/format";
+import type { LibrarySearchHit } from "../library/search-hit";
+import { entryAsInput } from "../library/step-schema";
 
 export interface EditorEntry {
   key: string;
@@ -42,16 +44,6 @@ interface Props {
   error?: { message: string; conflict?: { version: number; author: string | null; message: string; at: string } } | null;
 }
 
-interface SearchHit {
-  id: number;
-  versionId: number;
-  version: number;
-  label: string;
-  reaction: string;
-  status: string;
-  k: number | null;
-  kUnit: string;
-}
 
 export function MechanismEditor(p: Props) {
   const [name, setName] = useState(p.name);
@@ -61,7 +53,7 @@ export function MechanismEditor(p: Props) {
   const [entries, setEntries] = useState(p.entries);
   const [message, setMessage] = useState("");
   const [q, setQ] = useState("");
-  const [hits, setHits] = useState<SearchHit[]>([]);
+  const [hits, setHits] = useState<LibrarySearchHit[]>([]);
   const [searchNote, setSearchNote] = useState("");
   const busy = useNavigation().state === "submitting";
   const labelOf = useMemo(() => new Map(p.allSpecies.map((s) => [`s${s.id}`, s.label])), [p.allSpecies]);
@@ -90,7 +82,7 @@ export function MechanismEditor(p: Props) {
     };
   }, [q]);
 
-  const addLibrary = (h: SearchHit) => {
+  const addLibrary = (h: LibrarySearchHit) => {
     if (entries.some((e) => e.key === `L${h.id}`)) return setSearchNote(`"${h.label}" is already in the mechanism.`);
     setEntries([...entries, { key: `L${h.id}`, kind: "library", stepVersionId: h.versionId, versionNumber: h.version, label: h.label, reaction: h.reaction }]);
   };
@@ -141,9 +133,7 @@ export function MechanismEditor(p: Props) {
     description: description || undefined,
     visibility,
     species: species.map((s) => ({ key: s.key, speciesId: s.speciesId })),
-    steps: entries.map((e) =>
-      e.kind === "library" ? { kind: "library", key: e.key, stepVersionId: e.stepVersionId } : { kind: "local", key: e.key, step: e.step, ...(e.fromStepVersionId ? { fromStepVersionId: e.fromStepVersionId } : {}) },
-    ),
+    steps: entries.map(entryAsInput),
     message,
     baseVersion: p.baseVersion,
   });

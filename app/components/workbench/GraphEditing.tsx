@@ -16,6 +16,7 @@ import { StepSchema, type DocumentBarrier, type DocumentStep, type MechanismDocu
 import { stepNumbers } from "./step-rates";
 import { num } from "./format";
 import { GraphEditFormSchema, firstIssue, type GraphEdit } from "./graph-edit-schema";
+import type { LibrarySearchHit } from "../library/search-hit";
 
 export interface EntryInfo {
   kind: "library" | "local";
@@ -171,23 +172,13 @@ function SaveEdit({ edit, baseVersion, defaultMessage, label, validate }: { edit
 
 // ------------------------------------------------------------ add a step
 
-interface SearchHit {
-  id: number;
-  versionId: number;
-  version: number;
-  label: string;
-  reaction: string;
-  status: string;
-  k: number | null;
-  kUnit: string;
-}
 
 export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: MechanismDocument; allSpecies: Array<{ id: number; label: string; formula: string | null }>; baseVersion: number; T: number | null }) {
   const [open, setOpen] = useState(false);
   const [mode, setMode] = useState<"library" | "local">("library");
   const [q, setQ] = useState("");
-  const search = useFetcher<{ items?: SearchHit[]; error?: { message: string } }>();
-  const [pick, setPick] = useState<SearchHit | null>(null);
+  const search = useFetcher<{ items?: LibrarySearchHit[]; error?: { message: string } }>();
+  const [pick, setPick] = useState<LibrarySearchHit | null>(null);
   useEffect(() => {
     const text = q.trim();
     if (text.length < 2) return;
