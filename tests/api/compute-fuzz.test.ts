@@ -11,6 +11,7 @@ import fc from "fast-check";
 import { handleRates } from "../../app/api/compute-rates.server";
 import { action as simulateAction } from "../../app/routes/api.v1.simulate";
 import { closeApiPool } from "../../app/compute/api-pool.server";
+import { mutate, nasty } from "../support/fuzz";
 
 vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
 // The per-user simulation limit is not under test here.
@@ -41,29 +42,6 @@ function expectSane(r: { status: number; json: any; text: string }) {
     expect(typeof r.json.error.code).toBe("string");
     expect(r.json.error.message.length).toBeGreaterThan(0);
   }
-}
-
-const nasty = fc.oneof(
-  fc.constantFrom(
-    1e308, -1e308, 5e-324, -0, 0, -1, 1e21, Number.MAX_SAFE_INTEGER + 2,
-    "<script>alert(1)</script>", "'; DROP TABLE users; --", "Ω‡ΔG°—µ", "\u0000", "\ud83e\uddea", "",
-    null, true, [], {},
-  ),
-  fc.string({ maxLength: 40 }),
-  fc.double(),
-  fc.integer(),
-  fc.string({ minLength: 5000, maxLength: 20000 }),
-);
-
-/** Replaces one leaf (or adds one field) somewhere inside `value` with `replacement`. */
-function mutate(value: unknown, path: number[], replacement: unknown): unknown {
-  if (value === null || typeof value !== "object") return replacement;
-  const keys = Object.keys(value as object);
-  if (!keys.length || path.length === 0) return Array.isArray(value) ? [...value, replacement] : { ...(value as object), extraField: replacement };
-  const key = keys[path[0]! % keys.length]!;
-  const copy: any = Array.isArray(value) ? [...value] : { ...(value as object) };
-  copy[key] = mutate(copy[key], path.slice(1), replacement);
-  return copy;
 }
 
 const validRates = {

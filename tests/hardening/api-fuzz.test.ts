@@ -15,6 +15,7 @@ import type { Actor } from "../../app/auth/policy.server";
 import * as api from "../../app/api/library-api.server";
 import { handleCreateDataset } from "../../app/compute/dataset-api.server";
 import { IMPORT_LIMIT_BYTES } from "../../db/access/mechanisms.server";
+import { mutate, nasty } from "../support/fuzz";
 
 // A fixed seed keeps CI reproducible; change it locally to explore further inputs.
 fc.configureGlobal({ seed: 20261202 });
@@ -67,29 +68,6 @@ async function probe(name: string, body: string, headers?: Record<string, string
     expect(text).not.toMatch(/\bNaN\b|\bInfinity\b/);
   }
   return res.status;
-}
-
-const nasty = fc.oneof(
-  fc.constantFrom(
-    1e308, -1e308, 5e-324, -0, 0, -1, 1e21, Number.MAX_SAFE_INTEGER + 2, 2 ** 31, -(2 ** 31) - 1,
-    "<script>alert(1)</script>", "'; DROP TABLE steps; --", "\" OR 1=1 --", "Ω‡ΔG°—µ", "\u0000", "\ud83e\uddea", "\u202e", "",
-    null, true, [], {}, { __proto__: { polluted: 1 } }, [[[[[[[[[[1]]]]]]]]]],
-  ),
-  fc.string({ maxLength: 40 }),
-  fc.double(),
-  fc.integer(),
-  fc.string({ minLength: 5000, maxLength: 30000 }),
-);
-
-/** Replaces one leaf (or adds one unknown field) somewhere inside `value`. */
-function mutate(value: unknown, path: number[], replacement: unknown): unknown {
-  if (value === null || typeof value !== "object") return replacement;
-  const keys = Object.keys(value as object);
-  if (!keys.length || path.length === 0) return Array.isArray(value) ? [...value, replacement] : { ...(value as object), extraField: replacement };
-  const key = keys[path[0]! % keys.length]!;
-  const copy: any = Array.isArray(value) ? [...value] : { ...(value as object) };
-  copy[key] = mutate(copy[key], path.slice(1), replacement);
-  return copy;
 }
 
 /** JSON text of a value; non-finite numbers written as literal tokens (not JSON) half the time. */
