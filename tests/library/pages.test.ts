@@ -1,18 +1,12 @@
 // Library and mechanism page loaders and actions against the demo seed, with the signed-in
 // user mocked (the session itself is tested with sign-in).
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { who } from "../support/page-user-stand-in";
 import { freshDatabase, type TestDatabase } from "../support/db";
 import { seedDemo } from "../../db/seeds/index";
 import type { SessionUser } from "../../app/auth/current-user.server";
 
-const who: { user: SessionUser | null } = { user: null };
-vi.mock("~/auth/current-user.server", () => ({
-  getOptionalUser: async () => who.user,
-  requireUser: async () => {
-    if (!who.user) throw new Response(null, { status: 302, headers: { Location: "/sign-in" } });
-    return who.user;
-  },
-}));
+vi.mock("~/auth/current-user.server", () => import("../support/page-user-stand-in"));
 vi.mock("~/auth/csrf.server", () => ({ assertCsrf: async () => {}, csrfToken: async () => "" }));
 
 let t: TestDatabase;

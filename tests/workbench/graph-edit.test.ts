@@ -3,18 +3,12 @@
 // changes a barrier — each a new mechanism version with the message given; a save based on a
 // stale version is refused with 409 and stores nothing; a viewer is refused; bad input is 400.
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { who } from "../support/page-user-stand-in";
 import { freshDatabase, type TestDatabase } from "../support/db";
 import { seedDemo } from "../../db/seeds/index";
 import type { SessionUser } from "../../app/auth/current-user.server";
 
-const who: { user: SessionUser | null } = { user: null };
-vi.mock("~/auth/current-user.server", () => ({
-  getOptionalUser: async () => who.user,
-  requireUser: async () => {
-    if (!who.user) throw new Response(null, { status: 302, headers: { Location: "/sign-in" } });
-    return who.user;
-  },
-}));
+vi.mock("~/auth/current-user.server", () => import("../support/page-user-stand-in"));
 vi.mock("~/auth/csrf.server", () => ({ assertCsrf: async () => {}, csrfToken: async () => "" }));
 
 let t: TestDatabase;
