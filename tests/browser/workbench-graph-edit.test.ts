@@ -3,7 +3,7 @@
 // clicks a step node and changes its barrier in the side panel — k updates while typing (computed
 // in the browser) and saving gives a new mechanism version each time.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, hasApp, openBrowser, ownMechanismIds, type BrowserSession, signIn } from "../support/browser";
 
 
 describe.skipIf(!hasApp())("workbench graph editing in the browser", () => {
@@ -12,10 +12,8 @@ describe.skipIf(!hasApp())("workbench graph editing in the browser", () => {
   beforeAll(async () => {
     b = await openBrowser();
     await signIn(b, "author@saddlebook.test");
-    const me = (await (await b.page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
-    const list = (await (await b.page.request.get(appUrl() + "/api/v1/mechanisms")).json()) as { items: { id: number; owner_id: number }[] };
-    const mine = list.items.filter((m) => m.owner_id === me.id);
-    mechanismId = mine[mine.length - 1].id;
+    const mine = await ownMechanismIds(b);
+    mechanismId = mine[mine.length - 1]!;
   });
   afterAll(async () => {
     await b?.close();

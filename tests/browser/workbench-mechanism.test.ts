@@ -3,7 +3,7 @@
 // barrier — Eyring), a run starts from the conditions form, reports progress and finishes, and
 // its results page draws the plot; a conditions preset is saved with the mechanism.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, hasApp, openBrowser, ownMechanismIds, type BrowserSession, signIn } from "../support/browser";
 
 
 const kOf = (text: string) => Number(text.trim().split(/\s+/)[0]);
@@ -15,9 +15,7 @@ describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
     b = await openBrowser();
     await signIn(b, "author@saddlebook.test");
     // a mechanism of the demo scenario that this author owns (so the layout and presets are theirs to save)
-    const me = (await (await b.page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
-    const list = (await (await b.page.request.get(appUrl() + "/api/v1/mechanisms")).json()) as { items: { id: number; owner_id: number }[] };
-    mechanismId = list.items.find((m) => m.owner_id === me.id)!.id;
+    mechanismId = (await ownMechanismIds(b))[0]!;
   });
   afterAll(async () => {
     await b?.close();

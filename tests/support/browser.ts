@@ -31,6 +31,13 @@ export async function signIn(b: BrowserSession, email: string, opts: { timeout?:
   ]);
 }
 
+/** Ids of the mechanisms the signed-in user of `b` owns, in the API's list order. */
+export async function ownMechanismIds(b: BrowserSession): Promise<number[]> {
+  const me = (await (await b.page.request.get(appUrl() + "/api/v1/me")).json()) as { id: number };
+  const list = (await (await b.page.request.get(appUrl() + "/api/v1/mechanisms")).json()) as { items: { id: number; owner_id: number }[] };
+  return list.items.filter((m) => m.owner_id === me.id).map((m) => m.id);
+}
+
 export interface BrowserSession {
   context: BrowserContext;
   page: Page;
