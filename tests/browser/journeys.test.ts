@@ -6,7 +6,7 @@
 //   (d) a second author forks the first author's mechanism, changes it, runs parent and fork
 //       and compares the two runs.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, buildThreeStepMechanism, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
 
 /** Starts a run from a mechanism's workbench, waits for it, and returns the run id. */
@@ -35,29 +35,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
     b.page.setDefaultTimeout(60_000);
     await signIn(b, "author@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
-    await page.goto(appUrl() + "/mechanisms");
-    await page.getByLabel("Name", { exact: true }).fill("Journey-built mechanism (illustrative)");
-    await page.getByRole("button", { name: "Create" }).click();
-    await page.waitForURL(/\/mechanisms\/\d+$/);
-    const search = page.getByLabel("Search the library");
-    await search.fill("Background acetylation of ethanol");
-    await page.getByRole("button", { name: "Add Background acetylation of ethanol" }).click();
-    await search.fill("Anhydride hydrolysis uncatalysed");
-    await page.getByRole("button", { name: "Add Anhydride hydrolysis (uncatalysed)" }).click();
-    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(2);
-    await page.getByLabel("Local step label").fill("Ketene dimerisation (journey estimate)");
-    await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
-    await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
-    await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
-    await page.getByLabel("Local step ΔG‡").fill("18");
-    await page.getByLabel("Local step energy unit").selectOption("kcal/mol");
-    await page.getByRole("button", { name: "Add local step" }).click();
-    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(3);
-    await page.getByLabel("What changed").fill("Two library steps and a local dimerisation");
-    await page.getByRole("button", { name: /Save as version 2/ }).click();
-    await page.waitForURL(/saved=2/);
-    const rows = page.getByTestId("mechanism-steps").locator("tbody tr");
-    await expect.poll(() => rows.count()).toBe(3);
+    const rows = await buildThreeStepMechanism(page, "Journey-built mechanism (illustrative)", "Ketene dimerisation (journey estimate)");
     expect(await rows.nth(0).textContent()).toContain("library v");
     expect(await rows.nth(1).textContent()).toContain("library v");
     expect(await rows.nth(2).textContent()).toContain("local");

@@ -2,7 +2,7 @@
 // search the library and open a step; build a mechanism from two library steps and one new
 // step; fork a colleague's mechanism as another demo user and see the diff.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, buildThreeStepMechanism, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
 
 // Journeys take several page loads each; on a busy machine they need more than the default 30 s.
@@ -37,29 +37,7 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     b = await openBrowser();
     await signIn(b, "author2@saddlebook.test");
     const { page } = b;
-    await page.goto(appUrl() + "/mechanisms");
-    await page.getByLabel("Name", { exact: true }).fill("Browser-built mechanism <b>escaped</b>");
-    await page.getByRole("button", { name: "Create" }).click();
-    await page.waitForURL(/\/mechanisms\/\d+$/);
-    const search = page.getByLabel("Search the library");
-    await search.fill("Background acetylation of ethanol");
-    await page.getByRole("button", { name: "Add Background acetylation of ethanol" }).click();
-    await search.fill("Anhydride hydrolysis uncatalysed");
-    await page.getByRole("button", { name: "Add Anhydride hydrolysis (uncatalysed)" }).click();
-    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(2);
-    await page.getByLabel("Local step label").fill("Ketene dimerisation (my estimate)");
-    await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
-    await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
-    await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
-    await page.getByLabel("Local step ΔG‡").fill("18");
-    await page.getByLabel("Local step energy unit").selectOption("kcal/mol");
-    await page.getByRole("button", { name: "Add local step" }).click();
-    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(3);
-    await page.getByLabel("What changed").fill("Two library steps and a local dimerisation");
-    await page.getByRole("button", { name: /Save as version 2/ }).click();
-    await page.waitForURL(/saved=2/);
-    const rows = page.getByTestId("mechanism-steps").locator("tbody tr");
-    await expect.poll(() => rows.count()).toBe(3);
+    const rows = await buildThreeStepMechanism(page, "Browser-built mechanism <b>escaped</b>", "Ketene dimerisation (my estimate)");
     expect(await rows.nth(0).textContent()).toContain("library v");
     expect(await rows.nth(2).textContent()).toContain("local");
     // The label is shown as text, not as markup.

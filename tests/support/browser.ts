@@ -2,6 +2,7 @@
  * Browser tests drive Debian's Chromium through playwright-core against the app that
  * `npm test` serves (APP_URL). Screenshots go to test-results/ (not committed).
  */
+import { expect } from "vitest";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -92,4 +93,37 @@ export async function openBrowser(): Promise<BrowserSession> {
       await page.screenshot({ path: join(shots, `${name}.png`), fullPage: true });
     },
   };
+}
+
+/**
+ * Builds the demo scenario's three-step mechanism in the mechanism editor: creates `name`,
+ * pins two library steps (background acetylation of ethanol, uncatalysed anhydride hydrolysis),
+ * adds a local ketene dimerisation labelled `localLabel` (ΔG‡ 18 kcal/mol) and saves version 2.
+ * Returns the saved page's step rows (three, once they are shown).
+ */
+export async function buildThreeStepMechanism(page: Page, name: string, localLabel: string) {
+  await page.goto(appUrl() + "/mechanisms");
+  await page.getByLabel("Name", { exact: true }).fill(name);
+  await page.getByRole("button", { name: "Create" }).click();
+  await page.waitForURL(/\/mechanisms\/\d+$/);
+  const search = page.getByLabel("Search the library");
+  await search.fill("Background acetylation of ethanol");
+  await page.getByRole("button", { name: "Add Background acetylation of ethanol" }).click();
+  await search.fill("Anhydride hydrolysis uncatalysed");
+  await page.getByRole("button", { name: "Add Anhydride hydrolysis (uncatalysed)" }).click();
+  await expect.poll(() => page.getByTestId("editor-step").count()).toBe(2);
+  await page.getByLabel("Local step label").fill(localLabel);
+  await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+  await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+  await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
+  await page.getByLabel("Local step ΔG‡").fill("18");
+  await page.getByLabel("Local step energy unit").selectOption("kcal/mol");
+  await page.getByRole("button", { name: "Add local step" }).click();
+  await expect.poll(() => page.getByTestId("editor-step").count()).toBe(3);
+  await page.getByLabel("What changed").fill("Two library steps and a local dimerisation");
+  await page.getByRole("button", { name: /Save as version 2/ }).click();
+  await page.waitForURL(/saved=2/);
+  const rows = page.getByTestId("mechanism-steps").locator("tbody tr");
+  await expect.poll(() => rows.count()).toBe(3);
+  return rows;
 }
