@@ -6,7 +6,7 @@
 //   (d) a second author forks the first author's mechanism, changes it, runs parent and fork
 //       and compares the two runs.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, buildThreeStepMechanism, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, buildThreeStepMechanism, hasApp, searchAndOpenKeteneTrapping, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
 
 /** Starts a run from a mechanism's workbench, waits for it, and returns the run id. */
@@ -51,13 +51,7 @@ describe.skipIf(!hasApp())("the four journeys", () => {
     b.page.setDefaultTimeout(60_000);
     await signIn(b, "viewer@saddlebook.test", { timeout: 60_000 });
     const { page } = b;
-    await page.goto(appUrl() + "/library");
-    await page.getByLabel(/Search species/).fill("ketene traping");
-    await page.waitForURL(/q=ketene\+traping/);
-    const first = page.locator("tbody a", { hasText: "Ketene trapping" }).first();
-    await first.waitFor();
-    await first.click();
-    await page.waitForURL(/\/steps\/\d+$/);
+    await searchAndOpenKeteneTrapping(page);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toMatch(/Ketene trapping/);
     expect(await page.getByText(/k\(T\) over the validity range/).count()).toBe(1);
     expect(await page.getByText("Provenance").count()).toBeGreaterThan(0);

@@ -2,7 +2,7 @@
 // search the library and open a step; build a mechanism from two library steps and one new
 // step; fork a colleague's mechanism as another demo user and see the diff.
 import { afterEach, describe, expect, it } from "vitest";
-import { appUrl, buildThreeStepMechanism, hasApp, openBrowser, type BrowserSession, signIn } from "../support/browser";
+import { appUrl, buildThreeStepMechanism, hasApp, searchAndOpenKeteneTrapping, openBrowser, type BrowserSession, signIn } from "../support/browser";
 
 
 // Journeys take several page loads each; on a busy machine they need more than the default 30 s.
@@ -19,13 +19,7 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     b = await openBrowser();
     await signIn(b, "viewer@saddlebook.test");
     const { page } = b;
-    await page.goto(appUrl() + "/library");
-    await page.getByLabel(/Search species/).fill("ketene traping");
-    await page.waitForURL(/q=ketene\+traping/);
-    const first = page.locator("tbody a", { hasText: "Ketene trapping" }).first();
-    await first.waitFor();
-    await first.click();
-    await page.waitForURL(/\/steps\/\d+$/);
+    await searchAndOpenKeteneTrapping(page);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toMatch(/Ketene trapping/);
     expect(await page.getByText(/k\(T\) over the validity range/).count()).toBe(1);
     expect(await page.getByText("Provenance").count()).toBeGreaterThan(0);

@@ -127,3 +127,14 @@ export async function buildThreeStepMechanism(page: Page, name: string, localLab
   await expect.poll(() => rows.count()).toBe(3);
   return rows;
 }
+
+/** Searches the library with a typo ("ketene traping") and opens the first "Ketene trapping" hit. */
+export async function searchAndOpenKeteneTrapping(page: Page): Promise<void> {
+  await page.goto(appUrl() + "/library");
+  await page.getByLabel(/Search species/).fill("ketene traping");
+  await page.waitForURL(/q=ketene\+traping/);
+  const first = page.locator("tbody a", { hasText: "Ketene trapping" }).first();
+  await first.waitFor();
+  await first.click();
+  await page.waitForURL(/\/steps\/\d+$/);
+}
