@@ -17,7 +17,13 @@
  *     static diagonal pivots in the chosen order, reusing the pattern; no allocation.
  *     A pivot that is zero, tiny relative to its row or non-finite makes `factor` return
  *     false (the integrator then shrinks its step, which makes W diagonally dominant).
+ *     The numeric loops (loading A into the factor pattern, both eliminations and the
+ *     triangular solves) are WebAssembly kernels (solver/wasm/sparse-lu-kernels.wat) over a
+ *     memory owned by each factorisation. In JavaScript the same loops ran about twice as
+ *     slowly once a process held more than one factorisation; the kernels do not.
  */
+
+import { WasmArena } from "./wasm/sparse-lu-memory.ts";
 
 export interface SparseLU {
   readonly n: number;
@@ -227,130 +233,54 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
     schedPtr[nnz] = m;
   }
 
-  const val = new Float64Array(nnz);
-  const rowMaxA = new Float64Array(n);
+  // Column indices of L+U mapped back to original numbering, so the triangular solves work in
+  // place on b (row i of the permuted factors is original row perm[i]) with no gather/scatter.
+  const luColOrig = new Int32Array(nnz);
+  for (let p = 0; p < nnz; p++) luColOrig[p] = perm[luCol[p]];
   const aRow = new Int32Array(rowPtr[n]);
   for (let oi = 0; oi < n; oi++) for (let q = rowPtr[oi]; q < rowPtr[oi + 1]; q++) aRow[q] = iperm[oi];
-  const invDiag = new Float64Array(n);
   const nnzA = rowPtr[n];
 
-  // Numeric elimination with the static schedule: the row-i update by L entry p = (i, k) is
-  // val[sched[m]] −= l_ik·u_kj over the U part of row k, m running from schedPtr[p] (unrolled by
-  // two). The pivot test compares with the largest entry of row i before elimination, which holds
-  // only the entries of the input (fill starts at zero): rowMaxA, filled by factorShifted.
-  function eliminateScheduled(sc: Int32Array, scPtr: Int32Array): boolean {
-    const val_ = val, luPtr_ = luPtr, luCol_ = luCol, diag_ = diag, invDiag_ = invDiag, rowMaxA_ = rowMaxA;
-    for (let i = 0; i < n; i++) {
-      const start = luPtr_[i];
-      const d = diag_[i];
-      const rowMax = rowMaxA_[i];
-      for (let p = start; p < d; p++) {
-        const k = luCol_[p];
-        const lik = val_[p] * invDiag_[k];
-        val_[p] = lik;
-        if (lik === 0) continue;
-        let m = scPtr[p];
-        const kEnd = luPtr_[k + 1];
-        let q = diag_[k] + 1;
-        for (; q + 1 < kEnd; q += 2, m += 2) {
-          val_[sc[m]] -= lik * val_[q];
-          val_[sc[m + 1]] -= lik * val_[q + 1];
-        }
-        if (q < kEnd) val_[sc[m]] -= lik * val_[q];
-      }
-      const piv = val_[d];
-      if (!Number.isFinite(piv) || piv === 0 || Math.abs(piv) <= 1e-14 * rowMax) return false;
-      invDiag_[i] = 1 / piv;
-    }
-    return true;
-  }
-
-  // Numeric elimination by scatter/gather through `where` (large operation counts).
-  function eliminateScatter(): boolean {
-    for (let i = 0; i < n; i++) {
-      const start = luPtr[i];
-      const end = luPtr[i + 1];
-      const d = diag[i];
-      let rowMax = 0;
-      for (let p = start; p < end; p++) {
-        where[luCol[p]] = p;
-        const a = Math.abs(val[p]);
-        if (a > rowMax) rowMax = a;
-      }
-      for (let p = start; p < d; p++) {
-        const k = luCol[p];
-        const lik = val[p] * invDiag[k];
-        val[p] = lik;
-        if (lik === 0) continue;
-        const kEnd = luPtr[k + 1];
-        for (let q = diag[k] + 1; q < kEnd; q++) val[where[luCol[q]]] -= lik * val[q];
-      }
-      for (let p = start; p < end; p++) where[luCol[p]] = -1;
-      const piv = val[d];
-      if (!Number.isFinite(piv) || piv === 0 || Math.abs(piv) <= 1e-14 * rowMax) return false;
-      invDiag[i] = 1 / piv;
-    }
-    return true;
-  }
-  const eliminate = sched !== null && schedPtr !== null ? eliminateScheduled.bind(null, sched, schedPtr) : eliminateScatter;
+  // 3. numeric phase in WebAssembly (solver/wasm/sparse-lu-kernels.wat): every array in one
+  // memory of this factorisation's own, so the kernels run at the same speed however many
+  // factorisations a process holds.
+  const mem = new WasmArena();
+  const val = mem.f64(nnz);
+  const invDiag = mem.f64(n);
+  const rowMaxA = mem.f64(n);
+  const rhsBuf = mem.f64(n);
+  const inBuf = mem.f64(nnzA);
+  const luPtrW = mem.i32From(luPtr);
+  const luColW = mem.i32From(luCol);
+  const colOrigW = mem.i32From(luColOrig);
+  const diagW = mem.i32From(diag);
+  const permW = mem.i32From(perm);
+  const aMapW = mem.i32From(aMap);
+  const aRowW = mem.i32From(aRow);
+  const schedW = sched ? mem.i32From(sched) : 0;
+  const schedPtrW = schedPtr ? mem.i32From(schedPtr) : 0;
+  const whereW = sched ? 0 : mem.i32From(new Int32Array(n).fill(-1));
+  const kern = mem.instantiate();
+  const values64 = new Float64Array(mem.buffer, inBuf, nnzA);
+  const rhs64 = new Float64Array(mem.buffer, rhsBuf, n);
 
   function factorShifted(values: Float64Array, shift: number, scale: number): boolean {
-    const v = val, map = aMap, rows = aRow, dg = diag, rmax = rowMaxA;
-    v.fill(0);
-    if (scale === 1) for (let q = 0; q < nnzA; q++) v[map[q]] += values[q];
-    else for (let q = 0; q < nnzA; q++) v[map[q]] += scale * values[q];
-    if (shift !== 0) for (let i = 0; i < n; i++) v[dg[i]] += shift;
-    // row maxima of the (permuted) input for the pivot test of the scheduled elimination
-    rmax.fill(0);
-    for (let q = 0; q < nnzA; q++) {
-      const a = Math.abs(v[map[q]]);
-      const r = rows[q];
-      if (a > rmax[r]) rmax[r] = a;
-    }
-    for (let i = 0; i < n; i++) {
-      const a = Math.abs(v[dg[i]]);
-      if (a > rmax[i]) rmax[i] = a;
-    }
-    return eliminate();
+    values64.set(values.length === nnzA ? values : values.subarray(0, nnzA));
+    kern.load(n, nnz, nnzA, shift, scale, val, inBuf, aMapW, aRowW, diagW, rowMaxA);
+    const ok = sched
+      ? kern.eliminateScheduled(n, val, luPtrW, luColW, diagW, invDiag, rowMaxA, schedW, schedPtrW)
+      : kern.eliminateScatter(n, val, luPtrW, luColW, diagW, invDiag, whereW);
+    return ok === 1;
   }
 
   function factor(values: Float64Array): boolean {
     return factorShifted(values, 0, 1);
   }
 
-  // Column indices of L+U mapped back to original numbering, so the triangular solves work in
-  // place on b (row i of the permuted factors is original row perm[i]) with no gather/scatter.
-  const luColOrig = new Int32Array(nnz);
-  for (let p = 0; p < nnz; p++) luColOrig[p] = perm[luCol[p]];
-
-  // Two partial sums per row halve the dependency chain of the multiply–adds (about 15 % faster
-  // on the benchmark networks); rows are short, so the odd entry is handled after the loop.
   function solve(b: Float64Array): void {
-    const val_ = val, luPtr_ = luPtr, col_ = luColOrig, diag_ = diag, perm_ = perm, invDiag_ = invDiag;
-    for (let i = 0; i < n; i++) {
-      const oi = perm_[i];
-      let s0 = b[oi], s1 = 0;
-      const d = diag_[i];
-      let p = luPtr_[i];
-      for (; p + 1 < d; p += 2) {
-        s0 -= val_[p] * b[col_[p]];
-        s1 -= val_[p + 1] * b[col_[p + 1]];
-      }
-      if (p < d) s0 -= val_[p] * b[col_[p]];
-      b[oi] = s0 + s1;
-    }
-    for (let i = n - 1; i >= 0; i--) {
-      const oi = perm_[i];
-      let s0 = b[oi], s1 = 0;
-      const end = luPtr_[i + 1];
-      let p = diag_[i] + 1;
-      for (; p + 1 < end; p += 2) {
-        s0 -= val_[p] * b[col_[p]];
-        s1 -= val_[p + 1] * b[col_[p + 1]];
-      }
-      if (p < end) s0 -= val_[p] * b[col_[p]];
-      b[oi] = (s0 + s1) * invDiag_[i];
-    }
+    rhs64.set(b.length === n ? b : b.subarray(0, n));
+    kern.solve(n, val, luPtrW, colOrigW, diagW, permW, invDiag, rhsBuf);
+    b.set(rhs64);
   }
 
   return { n, nnzLU: nnz, flops, factor, factorShifted, solve };

@@ -114,3 +114,78 @@ describe("dense and sparse LU against mathjs lusolve (cross-check)", () => {
     expect(slu.nnzLU).toBe(cols.length);
   });
 });
+
+/** Random sparse pattern with a full diagonal; `density` is the share of off-diagonal entries. */
+function randomSparse(n: number, density: number, rnd: () => number) {
+  const rows: Map<number, number>[] = Array.from({ length: n }, () => new Map());
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) if (j !== i && rnd() < density) rows[i].set(j, rnd() - 0.5);
+    rows[i].set(i, 1 + rnd());
+  }
+  const rowPtr = new Int32Array(n + 1);
+  const cols: number[] = [];
+  const vals: number[] = [];
+  for (let i = 0; i < n; i++) {
+    for (const j of [...rows[i].keys()].sort((a, b) => a - b)) (cols.push(j), vals.push(rows[i].get(j)!));
+    rowPtr[i + 1] = cols.length;
+  }
+  const dense = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => rows[i].get(j) ?? 0));
+  return { rowPtr, colIdx: Int32Array.from(cols), values: Float64Array.from(vals), dense };
+}
+
+describe("sparse LU numeric kernels (WebAssembly)", () => {
+  it("the committed module is the assembly of solver/wasm/sparse-lu-kernels.wat (npm run gen:wasm)", async () => {
+    const { readFileSync } = await import("node:fs");
+    const { sparseKernelsModuleText } = await import("../../scripts/gen-wasm.ts");
+    const committed = readFileSync(new URL("../../solver/wasm/sparse-lu-kernels.ts", import.meta.url), "utf8");
+    expect(committed).toBe(await sparseKernelsModuleText());
+  });
+
+  it("the scatter elimination (operation count above the schedule limit) matches mathjs", () => {
+    const n = 260;
+    const m = randomSparse(n, 0.3, lcg(5));
+    const slu = createSparseLU(n, m.rowPtr, m.colIdx);
+    expect(slu.flops).toBeGreaterThan(4_000_000); // SCHEDULE_MAX_OPS in solver/linalg-sparse.ts
+    const shift = 2, scale = -0.5;
+    expect(slu.factorShifted(m.values, shift, scale)).toBe(true);
+    const b = Array.from({ length: n }, (_, i) => Math.sin(0.3 * i));
+    const x = Float64Array.from(b);
+    slu.solve(x);
+    const W = m.dense.map((r, i) => r.map((v, j) => scale * v + (i === j ? shift : 0)));
+    const ref = (lusolve(matrix(W), matrix(b)).toArray() as number[][]).map((r) => r[0]);
+    for (let i = 0; i < n; i++) expect(x[i]).toBeCloseTo(ref[i], 9);
+  });
+
+  it("a zero, tiny or non-finite pivot is reported on both elimination paths, and the next factorisation recovers", () => {
+    for (const [n, density] of [[40, 0.1], [260, 0.3]] as const) {
+      const m = randomSparse(n, density, lcg(11));
+      const slu = createSparseLU(n, m.rowPtr, m.colIdx);
+      expect(slu.factor(m.values.map(() => 0))).toBe(false); // all zero
+      const withNaN = Float64Array.from(m.values);
+      withNaN[0] = NaN;
+      expect(slu.factorShifted(withNaN, 10, 1)).toBe(false);
+      expect(slu.factorShifted(m.values, 1e-300, 1e-300)).toBe(true); // scaled, not singular
+      expect(slu.factorShifted(m.values, 10, 1)).toBe(true);
+      const x = new Float64Array(n).fill(1);
+      slu.solve(x);
+      for (const v of x) expect(Number.isFinite(v)).toBe(true);
+    }
+  });
+
+  it("factorisations held at the same time keep their own factors (one memory each)", () => {
+    const n = 60;
+    const m = randomSparse(n, 0.08, lcg(3));
+    const a = createSparseLU(n, m.rowPtr, m.colIdx);
+    const b = createSparseLU(n, m.rowPtr, m.colIdx);
+    expect(a.factorShifted(m.values, 5, 1)).toBe(true);
+    expect(b.factorShifted(m.values, 50, -1)).toBe(true);
+    const rhs = Array.from({ length: n }, (_, i) => Math.cos(i));
+    for (const [lu, shift, scale] of [[a, 5, 1], [b, 50, -1], [a, 5, 1]] as const) {
+      const x = Float64Array.from(rhs);
+      lu.solve(x);
+      const W = m.dense.map((r, i) => r.map((v, j) => scale * v + (i === j ? shift : 0)));
+      const ref = (lusolve(matrix(W), matrix(rhs)).toArray() as number[][]).map((r) => r[0]);
+      for (let i = 0; i < n; i++) expect(x[i]).toBeCloseTo(ref[i], 10);
+    }
+  });
+});
