@@ -4,7 +4,7 @@
  * request listener on node:http, serves build/client's files itself (hashed assets cached for a
  * year, the rest for an hour; no disk access for any other path) and compresses text for
  * clients that accept it. On SIGTERM/SIGINT, or when its supervisor is gone, it stops accepting
- * connections, finishes the requests it holds (at most 10 s) and exits.
+ * connections, finishes the requests it holds (at most SHUTDOWN_GRACE_MS) and exits.
  */
 import { readdirSync } from "node:fs";
 import { createServer } from "node:http";
@@ -13,9 +13,9 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 import { createRequestListener } from "@react-router/node";
 import compression from "compression";
 import serveStatic from "serve-static";
+import { SHUTDOWN_GRACE_MS } from "./shutdown-grace.mjs";
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), "..");
-const SHUTDOWN_GRACE_MS = 10_000;
 
 /** Every file under `dir`, as URL paths ("/assets/x.js"). */
 function clientFiles(dir) {

@@ -25,10 +25,10 @@ import { join, resolve } from "node:path";
 import knexFactory from "knex";
 import { knexConfigFromUrl } from "../db/config";
 import { failRunsOfOtherServers, failRunsOfServerProcess } from "../db/access/runs.server";
+import { SHUTDOWN_GRACE_MS } from "./shutdown-grace.mjs";
 import { SlidingWindows, WINDOW_ANSWER, WINDOW_REQUEST, type WindowAnswer, type WindowRequest } from "../app/security/sliding-window";
 
 const root = resolve(import.meta.dirname, "..");
-const SHUTDOWN_GRACE_MS = 10_000;
 
 /** A positive whole number from the environment, or the default; anything else stops start-up. */
 function countSetting(name: string, fallback: number, max: number): number {
