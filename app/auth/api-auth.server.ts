@@ -4,9 +4,9 @@
  * is refused even when a session cookie comes along.
  */
 import { apiError } from "~/api/errors.server";
-import { getOptionalUser, loadSessionUser, type SessionUser } from "./current-user.server";
+import { getOptionalUser, type SessionUser } from "./current-user.server";
 import { getDb } from "../../db/client.server";
-import { userIdForApiToken } from "../../db/access/tokens.server";
+import { userForApiToken } from "../../db/access/tokens.server";
 
 export function bearerToken(request: Request): string | null {
   const h = request.headers.get("Authorization");
@@ -19,8 +19,8 @@ export async function getApiUser(request: Request): Promise<SessionUser | null> 
   const token = bearerToken(request);
   if (token !== null) {
     if (!token) return null;
-    const found = await userIdForApiToken(getDb(), token);
-    return found ? loadSessionUser(found.userId) : null;
+    const u = (await userForApiToken(getDb(), token))?.user;
+    return u ? { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds } : null;
   }
   return getOptionalUser(request);
 }

@@ -6,6 +6,7 @@
  * enough because the secrets are random, not chosen by people (common practice).
  */
 import type { Knex } from "knex";
+import { USER_WITH_GROUPS_COLUMNS, userWithGroupsFromRows, type UserWithGroups } from "./users.server";
 import { createHash, randomBytes } from "node:crypto";
 
 export const API_TOKEN_PREFIX = "sbk_";
@@ -60,15 +61,25 @@ export async function revokeApiToken(db: Knex, userId: number, tokenId: number):
   return n > 0;
 }
 
-/** The owner of a live token (and stamps its last-used time, to the minute), or null. */
-export async function userIdForApiToken(db: Knex, token: string): Promise<{ userId: number; tokenId: number } | null> {
+/**
+ * The owner of a live token with their groups, in one round trip (api_tokens ⋈ users ⋈
+ * memberships), and stamps the token's last-used time, to the minute. Null for an unknown or
+ * revoked token; `user` is null when the owner is disabled.
+ */
+export async function userForApiToken(db: Knex, token: string): Promise<{ userId: number; tokenId: number; user: UserWithGroups | null } | null> {
   if (!token.startsWith(API_TOKEN_PREFIX) || token.length > 200) return null;
-  const row = await db("api_tokens").where({ token_hash: sha256Hex(token) }).whereNull("revoked_at").first();
+  const rows = (await db("api_tokens as t")
+    .join("users as u", "u.id", "t.user_id")
+    .leftJoin("memberships as m", "m.user_id", "u.id")
+    .where("t.token_hash", sha256Hex(token))
+    .whereNull("t.revoked_at")
+    .select(["t.id as token_id", "t.last_used_at", ...USER_WITH_GROUPS_COLUMNS])) as Array<Record<string, unknown>>;
+  const row = rows[0];
   if (!row) return null;
   // Stamp at most once a minute: a script calling the API in a loop need not write every time.
-  const last = row.last_used_at ? new Date(row.last_used_at).getTime() : 0;
-  if (Date.now() - last > 60_000) await db("api_tokens").where({ id: row.id }).update({ last_used_at: db.fn.now(3) });
-  return { userId: Number(row.user_id), tokenId: Number(row.id) };
+  const last = row.last_used_at ? new Date(row.last_used_at as string).getTime() : 0;
+  if (Date.now() - last > 60_000) await db("api_tokens").where({ id: row.token_id }).update({ last_used_at: db.fn.now(3) });
+  return { userId: Number(row.id), tokenId: Number(row.token_id), user: userWithGroupsFromRows(rows) };
 }
 
 // ---------------------------------------------------------------- one-time links

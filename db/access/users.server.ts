@@ -76,25 +76,30 @@ export async function createUser(
   return Number(id);
 }
 
-export async function loadUserWithGroups(db: Knex, id: number): Promise<UserWithGroups | null> {
-  // One round trip: the user's row once per membership (or once with NULLs when there is none).
-  const rows = await db("users as u")
-    .leftJoin("memberships as m", "m.user_id", "u.id")
-    .where("u.id", id)
-    .select("u.id", "u.email", "u.name", "u.role", "u.disabled", "u.email_verified_at", "u.session_epoch", "m.group_id", "m.group_role");
+/** The user columns `userWithGroupsFromRows` reads, with the membership columns of a left join on memberships `m`. */
+export const USER_WITH_GROUPS_COLUMNS = ["u.id", "u.email", "u.name", "u.role", "u.disabled", "u.email_verified_at", "u.session_epoch", "m.group_id", "m.group_role"];
+
+/** A user from rows of users ⋈ memberships (one row per membership, or one with NULLs); null when absent or disabled. */
+export function userWithGroupsFromRows(rows: Array<Record<string, unknown>>): UserWithGroups | null {
   const r = rows[0];
   if (!r || r.disabled) return null;
-  const ms = rows.filter((m: { group_id: number | null }) => m.group_id != null);
+  const ms = rows.filter((m) => m.group_id != null);
   return {
     id: Number(r.id),
     email: String(r.email),
     name: String(r.name),
     role: r.role as Role,
-    groupIds: ms.map((m: { group_id: number }) => Number(m.group_id)),
-    adminGroupIds: ms.filter((m: { group_role: string }) => m.group_role === "admin").map((m: { group_id: number }) => Number(m.group_id)),
+    groupIds: ms.map((m) => Number(m.group_id)),
+    adminGroupIds: ms.filter((m) => m.group_role === "admin").map((m) => Number(m.group_id)),
     emailVerified: !!r.email_verified_at,
     sessionEpoch: Number(r.session_epoch ?? 0),
   };
+}
+
+export async function loadUserWithGroups(db: Knex, id: number): Promise<UserWithGroups | null> {
+  // One round trip: the user's row once per membership (or once with NULLs when there is none).
+  const rows = await db("users as u").leftJoin("memberships as m", "m.user_id", "u.id").where("u.id", id).select(USER_WITH_GROUPS_COLUMNS);
+  return userWithGroupsFromRows(rows);
 }
 
 export async function setRole(db: Knex, id: number, role: Role): Promise<void> {

@@ -11,10 +11,10 @@ import {
   listApiTokens,
   revokeApiToken,
   sha256Hex,
-  userIdForApiToken,
+  userForApiToken,
   LINK_LIFETIME_HOURS,
 } from "../../db/access/tokens.server";
-import { findUserByEmail } from "../../db/access/users.server";
+import { findUserByEmail, loadUserWithGroups } from "../../db/access/users.server";
 
 let t: TestDatabase;
 let author: number;
@@ -44,23 +44,35 @@ describe("API tokens", () => {
   it("identify their owner and stamp the last-used time", async () => {
     const { id, token } = await createApiToken(t.db, author, "notebook");
     expect((await listApiTokens(t.db, author)).find((x) => x.id === id)?.lastUsedAt).toBeNull();
-    expect(await userIdForApiToken(t.db, token)).toEqual({ userId: author, tokenId: id });
+    expect(await userForApiToken(t.db, token)).toMatchObject({ userId: author, tokenId: id, user: { id: author } });
     expect((await listApiTokens(t.db, author)).find((x) => x.id === id)?.lastUsedAt).not.toBeNull();
   });
 
   it("stop working when revoked, and only their owner can revoke them", async () => {
     const { id, token } = await createApiToken(t.db, author, "old laptop");
     expect(await revokeApiToken(t.db, admin, id)).toBe(false);
-    expect(await userIdForApiToken(t.db, token)).not.toBeNull();
+    expect(await userForApiToken(t.db, token)).not.toBeNull();
     expect(await revokeApiToken(t.db, author, id)).toBe(true);
-    expect(await userIdForApiToken(t.db, token)).toBeNull();
+    expect(await userForApiToken(t.db, token)).toBeNull();
     expect(await revokeApiToken(t.db, author, id)).toBe(false);
   });
 
+  it("bring their owner's groups in the same answer as the user lookup, and no user when the owner is disabled", async () => {
+    const { token } = await createApiToken(t.db, author, "groups check");
+    const viaToken = await userForApiToken(t.db, token);
+    expect(viaToken?.user).toEqual(await loadUserWithGroups(t.db, author));
+    await t.db("users").where({ id: author }).update({ disabled: 1 });
+    try {
+      expect(await userForApiToken(t.db, token)).toMatchObject({ userId: author, user: null });
+    } finally {
+      await t.db("users").where({ id: author }).update({ disabled: 0 });
+    }
+  });
+
   it("reject unknown, malformed and over-long tokens", async () => {
-    expect(await userIdForApiToken(t.db, "sbk_" + "x".repeat(43))).toBeNull();
-    expect(await userIdForApiToken(t.db, "not-a-token")).toBeNull();
-    expect(await userIdForApiToken(t.db, "sbk_" + "a".repeat(500))).toBeNull();
+    expect(await userForApiToken(t.db, "sbk_" + "x".repeat(43))).toBeNull();
+    expect(await userForApiToken(t.db, "not-a-token")).toBeNull();
+    expect(await userForApiToken(t.db, "sbk_" + "a".repeat(500))).toBeNull();
   });
 });
 
