@@ -141,8 +141,8 @@ async function main() {
     });
 
     const cases: Array<{ name: string; kind: "page" | "api"; opts: { path: string; method?: string; headers?: Record<string, string>; body?: string } }> = [
-      { name: "search API  GET /api/v1/steps?q=", kind: "api", opts: { path: "/api/v1/steps?q=hydride", headers: bearer } },
-      { name: "library page GET /library", kind: "page", opts: { path: "/library?q=hydride", headers: { Cookie: cookie } } },
+      { name: "search API  GET /api/v1/steps?q=", kind: "api", opts: { path: "/api/v1/steps?q=anhydride", headers: bearer } },
+      { name: "library page GET /library", kind: "page", opts: { path: "/library?q=anhydride", headers: { Cookie: cookie } } },
       ...(mech ? [{ name: `mechanism page GET /mechanisms/${mech.id}`, kind: "page" as const, opts: { path: `/mechanisms/${mech.id}`, headers: { Cookie: cookie } } }] : []),
       { name: "rates API   POST /api/v1/rates", kind: "api", opts: { path: "/api/v1/rates", method: "POST", headers: bearer, body: rateBody } },
       { name: "simulate API POST /api/v1/simulate", kind: "api", opts: { path: "/api/v1/simulate", method: "POST", headers: bearer, body: simBody } },
