@@ -5,12 +5,14 @@
  * concurrent connections for a bounded time (default 10 s each). Then a memory run: all five
  * requests in turn on 50 connections for `memorySeconds` (default 60), sampling the resident
  * memory of the server's processes every 5 s.
- * Prints requests/s, latency percentiles (p95 from every response time), errors and memory.
+ * Prints requests/s, latency percentiles (p95 from every response time), errors, the server's
+ * CPU time per request (all its processes, from /proc) and memory.
  * Targets (issue "Hardening"): p95 < 100 ms for pages and search, no errors, memory steady.
  */
 import autocannon from "autocannon";
 import knexFactory from "knex";
 import { execFileSync } from "node:child_process";
+import { readFileSync } from "node:fs";
 import { randomBytes } from "node:crypto";
 import { availableParallelism } from "node:os";
 import { ensureDatabase } from "../scripts/mariadb";
@@ -28,23 +30,52 @@ const seconds = Number(process.argv[2] ?? process.env.LOAD_SECONDS ?? 10);
 const memorySeconds = Number(process.argv[3] ?? process.env.LOAD_MEMORY_SECONDS ?? 60);
 const CONNECTIONS = 50;
 
-/** Resident memory (MiB) of a process and all its descendants: the supervisor and its workers. */
+/** A process and all its descendants (the supervisor and its workers), from `ps`: pid and resident KiB. */
+function processTree(pid: number): Array<{ pid: number; rssKiB: number }> {
+  const rows = execFileSync("ps", ["-e", "-o", "pid=,ppid=,rss="], { encoding: "utf8" })
+    .trim()
+    .split("\n")
+    .map((l) => l.trim().split(/\s+/).map(Number) as [number, number, number]);
+  const inTree = new Set([pid]);
+  let grew = true;
+  while (grew) {
+    grew = false;
+    for (const [p, pp] of rows) if (inTree.has(pp) && !inTree.has(p)) (inTree.add(p), (grew = true));
+  }
+  return rows.filter(([p]) => inTree.has(p)).map(([p, , rss]) => ({ pid: p, rssKiB: rss }));
+}
+
+/** Resident memory (MiB) of the server's processes. */
 function treeRssMiB(pid: number): number {
   try {
-    const rows = execFileSync("ps", ["-e", "-o", "pid=,ppid=,rss="], { encoding: "utf8" })
-      .trim()
-      .split("\n")
-      .map((l) => l.trim().split(/\s+/).map(Number) as [number, number, number]);
-    const inTree = new Set([pid]);
-    let grew = true;
-    while (grew) {
-      grew = false;
-      for (const [p, pp] of rows) if (inTree.has(pp) && !inTree.has(p)) (inTree.add(p), (grew = true));
-    }
-    return rows.filter(([p]) => inTree.has(p)).reduce((a, [, , rss]) => a + rss, 0) / 1024; // KiB → MiB
+    return processTree(pid).reduce((a, x) => a + x.rssKiB, 0) / 1024;
   } catch {
     return NaN;
   }
+}
+
+/** CPU time (ms, user + system) used so far by the server's processes, per pid, from /proc/<pid>/stat (Linux). */
+function treeCpuMs(pid: number): Map<number, number> {
+  const out = new Map<number, number>();
+  try {
+    for (const { pid: p } of processTree(pid)) {
+      const stat = readFileSync(`/proc/${p}/stat`, "utf8");
+      const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" "); // fields from the 3rd on
+      out.set(p, ((Number(fields[11]) + Number(fields[12])) * 1000) / CLOCK_TICKS_PER_S); // utime, stime
+    }
+  } catch {
+    /* not Linux, or a process ended: leave it out */
+  }
+  return out;
+}
+/** USER_HZ of Linux's /proc accounting (100 on every common configuration). */
+const CLOCK_TICKS_PER_S = 100;
+
+/** Server CPU ms between two `treeCpuMs` readings (processes present in both). */
+function cpuBetween(a: Map<number, number>, b: Map<number, number>): number {
+  let ms = 0;
+  for (const [p, t] of b) if (a.has(p)) ms += t - a.get(p)!;
+  return ms;
 }
 
 function percentile(sorted: number[], q: number): number {
@@ -155,7 +186,9 @@ async function main() {
       // Warm up (JIT, connection pools), then measure.
       await hammer(appUrl, { connections: 5, duration: 1, requests: [req] });
       const before = treeRssMiB(pid);
+      const cpuBefore = treeCpuMs(pid);
       const { r, p50, p95, p99, max } = await hammer(appUrl, { connections: CONNECTIONS, duration: seconds, requests: [req] });
+      const cpuMsPerRequest = r.requests.total > 0 ? Number((cpuBetween(cpuBefore, treeCpuMs(pid)) / r.requests.total).toFixed(2)) : NaN;
       const after = treeRssMiB(pid);
       const line = {
         case: c.name,
@@ -168,12 +201,13 @@ async function main() {
         errors: r.errors + r.timeouts,
         non2xx: r.non2xx,
         rssMiB: { before: Math.round(before), after: Math.round(after) },
+        serverCpuMsPerRequest: cpuMsPerRequest,
         p95TargetMet: c.kind === "page" || c.name.startsWith("search") ? p95 < 100 : undefined,
       };
       console.log(JSON.stringify(line));
-      rows.push([c.name, String(line.requestsPerSecond), String(p50), String(p95), String(p99), String(line.errors), String(r.non2xx), `${line.rssMiB.before}→${line.rssMiB.after}`]);
+      rows.push([c.name, String(line.requestsPerSecond), String(p50), String(p95), String(p99), String(line.errors), String(r.non2xx), String(cpuMsPerRequest), `${line.rssMiB.before}→${line.rssMiB.after}`]);
     }
-    const head = ["case", "req/s", "p50 ms", "p95 ms", "p99 ms", "errors", "non-2xx", "RSS MiB"];
+    const head = ["case", "req/s", "p50 ms", "p95 ms", "p99 ms", "errors", "non-2xx", "CPU ms/req", "RSS MiB"];
     const w = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
     const fmt = (r: string[]) => r.map((x, i) => (i === 0 ? x.padEnd(w[i]!) : x.padStart(w[i]!))).join("  ");
     console.log("\n" + [fmt(head), w.map((n) => "-".repeat(n)).join("  "), ...rows.map(fmt)].join("\n"));
