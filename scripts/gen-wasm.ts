@@ -2,7 +2,7 @@
  * Assembles solver/wasm/sparse-lu-kernels.wat (WebAssembly text) with wabt and writes the
  * binary, base64-encoded, to solver/wasm/sparse-lu-kernels.ts, so that solver/ needs no build
  * step and no file access at run time. Run: npm run gen:wasm
- * (tests/solver/sparse-lu-wasm.test.ts fails when the committed module is out of date).
+ * (tests/solver/linalg-lu.test.ts fails when the committed module is out of date).
  */
 import { readFileSync, writeFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";

@@ -259,7 +259,7 @@ export function createSparseLU(n: number, rowPtr: Int32Array, colIdx: Int32Array
   const aRowW = mem.i32From(aRow);
   const schedW = sched ? mem.i32From(sched) : 0;
   const schedPtrW = schedPtr ? mem.i32From(schedPtr) : 0;
-  const whereW = sched ? 0 : mem.i32From(new Int32Array(n).fill(-1));
+  const whereW = sched ? 0 : mem.i32From(where); // every entry is back at −1 after the symbolic phase
   const kern = mem.instantiate();
   const values64 = new Float64Array(mem.buffer, inBuf, nnzA);
   const rhs64 = new Float64Array(mem.buffer, rhsBuf, n);
