@@ -4,7 +4,7 @@
  * is refused even when a session cookie comes along.
  */
 import { apiError } from "~/api/errors.server";
-import { getOptionalUser, type SessionUser } from "./current-user.server";
+import { getOptionalUser, sessionUserOf, type SessionUser } from "./current-user.server";
 import { getDb } from "../../db/client.server";
 import { userForApiToken } from "../../db/access/tokens.server";
 
@@ -20,7 +20,7 @@ export async function getApiUser(request: Request): Promise<SessionUser | null> 
   if (token !== null) {
     if (!token) return null;
     const u = (await userForApiToken(getDb(), token))?.user;
-    return u ? { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds } : null;
+    return u ? sessionUserOf(u) : null;
   }
   return getOptionalUser(request);
 }

@@ -7,7 +7,7 @@ import { redirect } from "react-router";
 import type { Actor, Role } from "./policy.server";
 import { getSession, sessionUserId } from "./session.server";
 import { getDb } from "../../db/client.server";
-import { loadUserWithGroups } from "../../db/access/users.server";
+import { loadUserWithGroups, type UserWithGroups } from "../../db/access/users.server";
 import { onceInRequest } from "./request-scope.server";
 
 /** The signed-in user as routes and the policy module see them. */
@@ -20,12 +20,17 @@ export interface SessionUser extends Actor {
   adminGroupIds: number[];
 }
 
+/** The fields of a loaded user that routes and the policy module see. */
+export function sessionUserOf(u: UserWithGroups): SessionUser {
+  return { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds };
+}
+
 export async function loadSessionUser(userId: number, epoch?: number): Promise<SessionUser | null> {
   const u = await loadUserWithGroups(getDb(), userId);
   if (!u) return null;
   // A password change or reset since this session signed in ends it.
   if (epoch !== undefined && u.sessionEpoch !== epoch) return null;
-  return { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: u.groupIds, adminGroupIds: u.adminGroupIds };
+  return sessionUserOf(u);
 }
 
 /**
