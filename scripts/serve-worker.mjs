@@ -5,15 +5,17 @@
  * year, the rest for an hour; no disk access for any other path) and compresses text for
  * clients that accept it. On SIGTERM/SIGINT, or when its supervisor is gone, it stops accepting
  * connections, finishes the requests it holds (at most SHUTDOWN_GRACE_MS) and exits.
+ * Requests reach the app through scripts/request-bridge.mjs (body limit, errors in JSON, nothing a
+ * client sends can stop the process).
  */
 import { readdirSync } from "node:fs";
 import { createServer } from "node:http";
 import { dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
-import { createRequestListener } from "@react-router/node";
 import compression from "compression";
 import serveStatic from "serve-static";
 import { SHUTDOWN_GRACE_MS } from "./shutdown-grace.mjs";
+import { createBridge, DEFAULT_MAX_BODY_BYTES } from "./request-bridge.mjs";
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), "..");
 
@@ -43,7 +45,8 @@ const build = await import(pathToFileURL(join(root, "build/server/index.js")).hr
 const clientDir = join(root, "build/client");
 const assetsDir = join(clientDir, "assets") + sep;
 const files = clientFiles(clientDir);
-const listener = createRequestListener({ build, mode: "production" });
+const maxBody = Number(process.env.MAX_REQUEST_BODY_BYTES || DEFAULT_MAX_BODY_BYTES);
+const listener = createBridge({ build, maxBodyBytes: Number.isSafeInteger(maxBody) && maxBody > 0 ? maxBody : DEFAULT_MAX_BODY_BYTES });
 const compress = compression();
 const statics = serveStatic(clientDir, {
   index: false,
@@ -60,9 +63,9 @@ const server = createServer((req, res) => {
     const q = url.indexOf("?");
     const path = q >= 0 ? url.slice(0, q) : url;
     if ((req.method === "GET" || req.method === "HEAD") && files.has(decodePath(path))) {
-      statics(req, res, () => void listener(req, res));
+      statics(req, res, () => listener(req, res));
     } else {
-      void listener(req, res);
+      listener(req, res);
     }
   });
 });
@@ -83,3 +86,5 @@ process.once("SIGTERM", close);
 process.once("SIGINT", close);
 // The supervisor is gone (killed): stop too rather than serve unsupervised.
 process.once("disconnect", close);
+// A promise nobody awaited that failed: logged, never a reason to drop every connection held.
+process.on("unhandledRejection", (e) => console.error(`Unhandled rejection: ${e instanceof Error ? e.stack ?? e.message : e}`));
