@@ -394,6 +394,12 @@ export async function getMechanismRow(db: Knex, actor: Actor | null, id: number)
   return { ...m, layout: m.layout ? parseJson(m.layout) : null, condition_presets: m.condition_presets ? parseJson(m.condition_presets) : null, illustrative: !!m.illustrative };
 }
 
+/** Whether the mechanism exists and the actor may read it (one query; for links such as a dataset's mechanism). */
+export async function mechanismReadable(db: Knex, actor: Actor | null, id: number): Promise<boolean> {
+  const m = await db("mechanisms").where({ id }).first("owner_id", "visibility", "group_id");
+  return !!m && can(actor, { do: "mechanism.read", object: owned(m) });
+}
+
 export interface MechanismVersionRow {
   id: number;
   number: number;
