@@ -5,10 +5,27 @@ import { newCsrfToken } from "./csrf.server";
 import { getDb } from "../../db/client.server";
 import { sessionEpoch } from "../../db/access/users.server";
 
-/** Only same-site paths ("/x", not "//host" or "https://…"); else the dashboard. */
+const NEXT_BASE = new URL("http://saddlebook.invalid/");
+
+/**
+ * The one check of every "come back here" address (sign-in, single sign-on): `next` is resolved
+ * as a URL, as a browser would (tabs and line breaks dropped, backslashes read as slashes), and
+ * only a path on this site is kept, in its encoded form (safe in a Location header). Anything
+ * that would leave the site, or is not a path at all, gives `fallback`.
+ */
 export function safeNext(next: unknown, fallback = "/"): string {
-  if (typeof next !== "string" || !next.startsWith("/") || next.startsWith("//") || next.startsWith("/\\")) return fallback;
-  return next.slice(0, 500);
+  if (typeof next !== "string" || !next.startsWith("/") || next.length > 2000) return fallback;
+  let url: URL;
+  try {
+    url = new URL(next, NEXT_BASE);
+  } catch {
+    return fallback;
+  }
+  if (url.origin !== NEXT_BASE.origin) return fallback;
+  const path = url.pathname + url.search + url.hash;
+  // A path that still starts with two slashes (or a slash and a backslash) would be read as another host.
+  if (!path.startsWith("/") || /^\/[/\\]/.test(path) || path.length > 500) return fallback;
+  return path;
 }
 
 /** A fresh session for the user (new CSRF token), then a redirect. */
