@@ -8,6 +8,7 @@ import type { TestDatabase } from "../support/db";
 import { args, authDatabase, cookieFrom, formRequest, getRequest, outcome } from "./support";
 import { DEMO_PASSWORD } from "../../db/seeds/demo-identities";
 import { createApiToken } from "../../db/access/tokens.server";
+import { throughRoot } from "../support/root-middleware";
 
 let t: TestDatabase;
 let signIn: typeof import("../../app/routes/sign-in");
@@ -38,10 +39,7 @@ async function create(name: string, headers: Record<string, string>) {
     headers: { "Content-Type": "application/json", ...headers },
     body: JSON.stringify({ name, visibility: "private", steps: [] }),
   });
-  const chain = [...root.middleware];
-  const run = (i: number): Promise<Response> =>
-    i < chain.length ? (chain[i]({ request, params: {}, context: {} } as never, () => run(i + 1)) as Promise<Response>) : (mechanisms.action(args(request)) as Promise<Response>);
-  return outcome(() => run(0));
+  return outcome(() => throughRoot(request, {}, () => mechanisms.action(args(request))));
 }
 
 const count = async (name: string) => (await t.db("mechanisms").where({ name })).length;
