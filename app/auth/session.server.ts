@@ -1,7 +1,8 @@
 /**
  * The session cookie: signed with SESSION_SECRET, httpOnly, SameSite=Lax, Secure when
  * the app is served over https in production, 12-hour lifetime (renewed on sign-in).
- * It holds the user id, the CSRF token and the time of sign-in; nothing else.
+ * It holds the user id, the CSRF token and the time of sign-in; nothing else. Signing out
+ * records (user id, time of sign-in) as ended on the server (db/access/sessions.server.ts).
  */
 import { createCookie, createCookieSessionStorage, type Cookie, type Session } from "react-router";
 

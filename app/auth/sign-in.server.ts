@@ -1,9 +1,10 @@
 /** Starting and ending sessions, and the safe "come back here" address. */
 import { redirect } from "react-router";
-import { commitSession, destroySession, getSession } from "./session.server";
+import { SESSION_MAX_AGE_S, commitSession, destroySession, getSession, sessionUserId } from "./session.server";
 import { newCsrfToken } from "./csrf.server";
 import { getDb } from "../../db/client.server";
 import { sessionEpoch } from "../../db/access/users.server";
+import { endSessionRecord } from "../../db/access/sessions.server";
 
 const NEXT_BASE = new URL("http://saddlebook.invalid/");
 
@@ -40,8 +41,14 @@ export async function startSession(request: Request, userId: number, method: str
   return redirect(to, { headers: { "Set-Cookie": await commitSession(session) } });
 }
 
+/**
+ * Ends the session on the server as well as in the browser: the cookie's (user, sign-in moment)
+ * is recorded as ended, so a copy of the cookie replayed later signs nobody in.
+ */
 export async function endSession(request: Request, to = "/"): Promise<Response> {
   const session = await getSession(request);
+  const userId = sessionUserId(session);
+  if (userId !== null) await endSessionRecord(getDb(), userId, session.get("signedInAt")!, Date.now() - SESSION_MAX_AGE_S * 1000);
   return redirect(to, { headers: { "Set-Cookie": await destroySession(session) } });
 }
 

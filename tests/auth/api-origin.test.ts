@@ -5,32 +5,20 @@
 // headers, and with an API token.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { TestDatabase } from "../support/db";
-import { args, authDatabase, cookieFrom, formRequest, getRequest, outcome } from "./support";
-import { DEMO_PASSWORD } from "../../db/seeds/demo-identities";
+import { args, authDatabase, closeAuthDatabase, demoSessionCookie, outcome } from "./support";
 import { createApiToken } from "../../db/access/tokens.server";
 import { throughRoot } from "../support/root-middleware";
 
 let t: TestDatabase;
-let signIn: typeof import("../../app/routes/sign-in");
-let root: typeof import("../../app/root");
 let mechanisms: typeof import("../../app/routes/api.v1.mechanisms");
 let cookie = "";
 
 beforeAll(async () => {
   t = await authDatabase();
-  signIn = await import("../../app/routes/sign-in");
-  root = await import("../../app/root");
   mechanisms = await import("../../app/routes/api.v1.mechanisms");
-  const v = await outcome(() => root.loader(args(getRequest("/sign-in"))));
-  const r = await outcome(() => signIn.action(args(formRequest("/sign-in", { csrf: v.body.csrf, email: "author@saddlebook.test", password: DEMO_PASSWORD, next: "/" }, { cookie: cookieFrom(v), ip: "192.0.2.70" }))));
-  expect(r.status).toBe(302);
-  cookie = cookieFrom(r);
+  cookie = await demoSessionCookie("author@saddlebook.test", "192.0.2.70");
 });
-afterAll(async () => {
-  const { getDb } = await import("../../db/client.server");
-  await getDb().destroy();
-  await t?.drop();
-});
+afterAll(() => closeAuthDatabase(t));
 
 /** A POST /api/v1/mechanisms through the root middleware, as the served app runs it. */
 async function create(name: string, headers: Record<string, string>) {

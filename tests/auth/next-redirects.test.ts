@@ -3,7 +3,7 @@
 // backslashes and encoded control characters neither leave the site nor break the redirect.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { TestDatabase } from "../support/db";
-import { args, authDatabase, cookieFrom, formRequest, getRequest, outcome } from "./support";
+import { args, authDatabase, closeAuthDatabase, cookieFrom, demoSessionCookie, formRequest, getRequest, outcome } from "./support";
 import { DEMO_PASSWORD } from "../../db/seeds/demo-identities";
 import { safeNext } from "../../app/auth/sign-in.server";
 
@@ -16,11 +16,7 @@ beforeAll(async () => {
   signIn = await import("../../app/routes/sign-in");
   root = await import("../../app/root");
 });
-afterAll(async () => {
-  const { getDb } = await import("../../db/client.server");
-  await getDb().destroy();
-  await t?.drop();
-});
+afterAll(() => closeAuthDatabase(t));
 
 // Query-string values as an attacker would put them in a link (still percent-encoded).
 const OFF_SITE = ["%2F%09%2Fexample.invalid", "%2F%0A%2Fexample.invalid", "%2F%0D%2Fexample.invalid", "%2F%5Cexample.invalid", "%2F%2Fexample.invalid", "https%3A%2F%2Fexample.invalid%2F", "%2F..%2F%2Fexample.invalid", "%20%2F%2Fexample.invalid", "javascript%3Aalert(1)"];
@@ -28,13 +24,6 @@ const BROKEN = ["/%0d/x", "/%0a/x", "%2F%0D%0ASet-Cookie%3A%20x%3D1"];
 
 /** Where a browser would go from `location`, relative to the app. */
 const landing = (location: string) => new URL(location, "http://127.0.0.1:3000/");
-
-async function signedIn(email: string): Promise<string> {
-  const v = await outcome(() => root.loader(args(getRequest("/sign-in"))));
-  const r = await outcome(() => signIn.action(args(formRequest("/sign-in", { csrf: v.body.csrf, email, password: DEMO_PASSWORD, next: "/" }, { cookie: cookieFrom(v), ip: "192.0.2.90" }))));
-  expect(r.status).toBe(302);
-  return cookieFrom(r);
-}
 
 describe("next after sign-in", () => {
   it("keeps same-site paths with their query and fragment", () => {
@@ -45,7 +34,7 @@ describe("next after sign-in", () => {
   });
 
   it("sends a signed-in visitor only to paths on this site, whatever the link says", async () => {
-    const cookie = await signedIn("viewer@saddlebook.test");
+    const cookie = await demoSessionCookie("viewer@saddlebook.test", "192.0.2.90");
     for (const next of [...OFF_SITE, ...BROKEN]) {
       const r = await outcome(() => signIn.loader(args(getRequest(`/sign-in?next=${next}`, { cookie }))));
       expect(r.status, next).toBe(302);
