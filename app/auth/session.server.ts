@@ -28,7 +28,8 @@ export const SESSION_COOKIE = "__saddlebook";
 type Storage = ReturnType<typeof createCookieSessionStorage<SessionData, SessionFlash>>;
 let storage: Storage | undefined;
 
-function secret(): string {
+/** SESSION_SECRET (development and test runs without one get a random secret per process). */
+export function sessionSecret(): string {
   const s = process.env.SESSION_SECRET;
   if (s && s.length >= 16) return s;
   if (process.env.NODE_ENV === "production") {
@@ -92,7 +93,7 @@ export function sessionStorage(): Storage {
         secure: secureCookies(),
         path: "/",
         maxAge: SESSION_MAX_AGE_S,
-        secrets: [secret()],
+        secrets: [sessionSecret()],
       }),
     ),
   });

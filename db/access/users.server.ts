@@ -126,8 +126,10 @@ export async function markEmailVerified(db: Knex, id: number): Promise<void> {
   await db("users").where({ id }).whereNull("email_verified_at").update({ email_verified_at: db.fn.now(3), updated_at: db.fn.now(3) });
 }
 
-export async function linkOidcSubject(db: Knex, id: number, subject: string): Promise<void> {
-  await db("users").where({ id }).update({ oidc_subject: subject, updated_at: db.fn.now(3) });
+/** Binds a single sign-on subject to an account that has none; false when the account is already bound. */
+export async function linkOidcSubject(db: Knex, id: number, subject: string): Promise<boolean> {
+  const n = await db("users").where({ id }).whereNull("oidc_subject").update({ oidc_subject: subject, updated_at: db.fn.now(3) });
+  return n === 1;
 }
 
 export interface UserListRow {
