@@ -345,3 +345,25 @@ describe("group invitations and roles", () => {
     expect(self.status).toBe(409);
   });
 });
+
+describe("several reset links", () => {
+  it("using the newer link makes the older one useless, and the other way round", async () => {
+    const email = "curator@saddlebook.test";
+    const v = await visitor();
+    const tokens: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      await outcome(() => route.forgot.action(args(post(v, "/forgot-password", { email }))));
+      tokens.push(new URL("http://x" + linkIn(lastMailTo(email).text, "/reset-password")).searchParams.get("token")!);
+    }
+    expect(tokens[0]).not.toBe(tokens[1]);
+    const newer = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token: tokens[1]!, password: "newer-link-pass-1", confirm: "newer-link-pass-1" }))));
+    expect(newer.status).toBe(302);
+    const hash = (await t.db("users").where({ email }).first()).password_hash;
+    const shown = await outcome(() => route.reset.loader(args(getRequest(`/reset-password?token=${tokens[0]}`))));
+    expect(shown.body.problem).toMatch(/already been used/);
+    const older = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token: tokens[0]!, password: "older-link-pass-2", confirm: "older-link-pass-2" }))));
+    expect(older.status).toBe(410);
+    expect((await t.db("users").where({ email }).first()).password_hash).toBe(hash);
+    await signedIn(email, "newer-link-pass-1");
+  });
+});
