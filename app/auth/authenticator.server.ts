@@ -31,7 +31,7 @@ export interface SignedIn {
 export class SignInError extends Error {
   constructor(
     message: string,
-    readonly code: "invalid" | "unverified" | "limited" | "disabled" | "provider" | "other-subject" = "invalid",
+    readonly code: "invalid" | "unverified" | "limited" | "disabled" | "unavailable" | "unconfirmed-email" | "no-subject" | "other-subject" = "invalid",
     readonly email?: string,
   ) {
     super(message);
@@ -101,7 +101,7 @@ export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): 
         action: "sign-in.failure",
         objectType: known ? "user" : null,
         objectId: known?.id ?? null,
-        detail: { method: "oidc", email: claims.email, reason: e.code === "disabled" || e.code === "other-subject" ? e.code : "unconfirmed-email" },
+        detail: { method: "oidc", email: claims.email, reason: e.code },
         ip,
       });
     }
@@ -111,13 +111,13 @@ export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): 
 
 async function linkOrCreate(db: Knex, claims: IdClaims, ip: string): Promise<SignedIn> {
   return db.transaction(async (trx) => {
-    if (!claims.sub) throw new SignInError("The sign-in provider did not name the person; try again.", "provider");
+    if (!claims.sub) throw new SignInError("The sign-in provider did not name the person; try again.", "no-subject");
     let user = await findUserByOidcSubject(trx, claims.sub);
     if (!user) {
       const byEmail = await findUserByEmail(trx, claims.email);
       if (byEmail) {
         if (!claims.emailVerified) {
-          throw new SignInError("The sign-in provider has not confirmed this e-mail address, so it cannot be linked to the existing account.", "provider");
+          throw new SignInError("The sign-in provider has not confirmed this e-mail address, so it cannot be linked to the existing account.", "unconfirmed-email");
         }
         // An account is bound to one single sign-on identity (its subject was not found above):
         // another subject with the same address is not that person, and is never bound in its place.
@@ -192,7 +192,7 @@ export function getAuthenticator(): Promise<Authenticator<SignedIn>> {
     authenticator = undefined;
     throw new SignInError(
       `The single sign-on provider at ${oidcConfig()?.issuer ?? "(not configured)"} is not answering; try again, or sign in with e-mail and password.`,
-      "provider",
+      "unavailable",
     );
   });
   return authenticator;

@@ -53,3 +53,35 @@ describe("single sign-on, start to finish", () => {
     expect(who.body).toMatchObject({ email: "curator@saddlebook.test" });
   });
 });
+
+describe("single sign-on problems on the sign-in page", () => {
+  async function started() {
+    const start = await import("../../app/routes/auth.oidc");
+    const go = await outcome(() => start.loader(args(getRequest("/auth/oidc"))));
+    return { state: new URL(go.headers.get("Location")!).searchParams.get("state")!, browser: cookiesOf(go) };
+  }
+
+  it("names each failure by a short code in the address, never by the provider's words", async () => {
+    const callback = await import("../../app/routes/auth.oidc.callback");
+    const { state, browser } = await started();
+    const refused = await outcome(() =>
+      callback.loader(args(getRequest(`/auth/oidc/callback?state=${state}&error=access_denied&error_description=${encodeURIComponent("Your bank account is locked: call +1 555 0100")}`, { cookie: browser }))),
+    );
+    expect(refused.headers.get("Location")).toBe("/sign-in?error=sso-refused");
+    const foreign = await outcome(() => callback.loader(args(getRequest("/auth/oidc/callback?state=not-this-browsers&code=x", { cookie: browser }))));
+    expect(foreign.headers.get("Location")).toBe("/sign-in?error=sso-expired");
+    const none = await outcome(() => callback.loader(args(getRequest(`/auth/oidc/callback?state=${state}&code=x`))));
+    expect(none.headers.get("Location")).toBe("/sign-in?error=sso-expired");
+  });
+
+  it("the sign-in page shows the sentence of a known code and nothing for any other text", async () => {
+    const signIn = await import("../../app/routes/sign-in");
+    const { SIGN_IN_PROBLEMS } = await import("../../app/auth/sign-in-problems.server");
+    const shown = async (error: string) => (await outcome(() => signIn.loader(args(getRequest(`/sign-in?error=${encodeURIComponent(error)}`))))).body.error;
+    expect(await shown("sso-refused")).toBe(SIGN_IN_PROBLEMS["sso-refused"]);
+    expect(await shown("disabled")).toBe(SIGN_IN_PROBLEMS.disabled);
+    for (const text of ["Your session expired: call +1 555 0100 to restore your account", "<b>Enter your password at evil.example</b>", "__proto__", "constructor", "toString", "SSO-REFUSED", ""]) {
+      expect(await shown(text), text).toBeNull();
+    }
+  });
+});
