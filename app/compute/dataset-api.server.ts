@@ -12,7 +12,7 @@ import type { Knex } from "knex";
 import { apiError } from "~/api/errors.server";
 import { invalidBody, jsonResponse, readJsonBody, zodFields } from "~/api/json-request.server";
 import { can, type Actor } from "~/auth/policy.server";
-import { MappingSchema, applyMapping, parseCsv, MAX_CSV_BYTES } from "~/components/workbench/dataset-csv";
+import { MappingSchema, applyMapping, datasetTemperatureProblem, parseCsv, MAX_CSV_BYTES } from "~/components/workbench/dataset-csv";
 import { mechanismReadable } from "../../db/access/mechanisms.server";
 import { createDataset, datasetAsOwned, datasetInSI, getDataset, listDatasets, type DatasetRecord } from "../../db/access/datasets.server";
 
@@ -74,7 +74,8 @@ export async function handleCreateDataset(db: Knex, actor: Actor, request: Reque
     return apiError(404, "not_found", message, { mechanismId: message });
   }
   const TK = b.temperature.unit === "K" ? b.temperature.value : b.temperature.value + 273.15;
-  if (!(TK > 0)) return apiError(422, "temperature", "The temperature must be above absolute zero.", { "temperature.value": "must be above 0 K" });
+  const badT = datasetTemperatureProblem(TK);
+  if (badT) return apiError(422, "temperature", badT.message, { "temperature.value": badT.field });
   const id = await createDataset(db, { ownerId: actor.id, name: b.name, notes: b.notes ?? null, mechanismId: b.mechanismId ?? null, temperatureK: TK, timeUnit: b.timeUnit, concentrationUnit: b.concentrationUnit, mapping: b.mapping, rows: mapped.value });
   return jsonResponse({ dataset: datasetJson((await getDataset(db, id))!) }, { status: 201, headers: { Location: `/api/v1/datasets/${id}` } });
 }
