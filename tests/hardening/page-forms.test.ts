@@ -4,9 +4,9 @@
 // error, and store nothing.
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { who } from "../support/page-user-stand-in";
-import { freshDatabase, type TestDatabase } from "../support/db";
+import type { TestDatabase } from "../support/db";
+import { demoAuthorDatabase, dropDemoDatabase } from "../support/demo-author";
 import { throughRoot } from "../support/root-middleware";
-import { seedDemo } from "../../db/seeds/index";
 
 vi.mock("~/auth/current-user.server", () => import("../support/page-user-stand-in"));
 vi.mock("~/auth/csrf.server", () => ({ assertCsrf: async () => {}, csrfToken: async () => "", ensureCsrfToken: async () => ({ token: "", setCookie: null }) }));
@@ -15,18 +15,10 @@ let t: TestDatabase;
 let mechId = 0;
 
 beforeAll(async () => {
-  t = await freshDatabase();
-  process.env.DATABASE_URL = t.url;
-  await seedDemo(t.db);
-  const u = await t.db("users").where({ email: "author@saddlebook.test" }).first();
-  who.user = { id: u.id, email: u.email, name: u.name, role: u.role, groupIds: await t.db("memberships").where({ user_id: u.id }).pluck("group_id"), adminGroupIds: [] };
-  mechId = (await t.db("mechanisms").where({ owner_id: u.id }).first("id")).id;
+  const d = await demoAuthorDatabase();
+  [t, who.user, mechId] = [d.t, d.author, d.mechId];
 });
-afterAll(async () => {
-  const { getDb } = await import("../../db/client.server");
-  await getDb().destroy();
-  await t?.drop();
-});
+afterAll(() => dropDemoDatabase(t));
 
 /** Status and body of whatever came back (Response, data() or a plain object). */
 async function settle(value: unknown): Promise<{ status: number; body: any }> {

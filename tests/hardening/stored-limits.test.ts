@@ -4,8 +4,8 @@
 // and never reaches the database as an absurd number (which used to end in a server error).
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { who } from "../support/page-user-stand-in";
-import { freshDatabase, type TestDatabase } from "../support/db";
-import { seedDemo } from "../../db/seeds/index";
+import type { TestDatabase } from "../support/db";
+import { demoAuthorDatabase, dropDemoDatabase } from "../support/demo-author";
 import type { Actor } from "../../app/auth/policy.server";
 import * as api from "../../app/api/library-api.server";
 import { handleCreateDataset } from "../../app/compute/dataset-api.server";
@@ -21,19 +21,11 @@ let author: Actor;
 let mechId = 0;
 
 beforeAll(async () => {
-  t = await freshDatabase();
-  process.env.DATABASE_URL = t.url;
-  await seedDemo(t.db);
-  const u = await t.db("users").where({ email: "author@saddlebook.test" }).first();
-  author = { id: u.id, role: u.role, groupIds: await t.db("memberships").where({ user_id: u.id }).pluck("group_id"), adminGroupIds: [] };
-  who.user = { ...author, email: u.email, name: u.name, adminGroupIds: [] };
-  mechId = (await t.db("mechanisms").where({ owner_id: u.id }).first("id")).id;
+  const d = await demoAuthorDatabase();
+  [t, author, mechId] = [d.t, d.author, d.mechId];
+  who.user = d.author;
 });
-afterAll(async () => {
-  const { getDb } = await import("../../db/client.server");
-  await getDb().destroy();
-  await t?.drop();
-});
+afterAll(() => dropDemoDatabase(t));
 
 const json = (body: unknown) => new Request("http://app.test/api/v1/x", { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) });
 const count = async (table: string) => Number((await t.db(table).count({ n: "*" }).first())!.n);
