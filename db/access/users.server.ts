@@ -117,6 +117,17 @@ export async function setPasswordHash(db: Knex, id: number, hash: string): Promi
     .update({ password_hash: hash, session_epoch: db.raw("session_epoch + 1"), updated_at: db.fn.now(3) });
 }
 
+/**
+ * Disables or re-enables an account. Disabling also raises the session epoch, so the person's
+ * sessions end and stay ended after a later re-enable (they sign in again). False when nothing changed.
+ */
+export async function setDisabled(db: Knex, id: number, disabled: boolean): Promise<boolean> {
+  const change: Record<string, unknown> = { disabled, updated_at: db.fn.now(3) };
+  if (disabled) change.session_epoch = db.raw("session_epoch + 1");
+  const n = await db("users").where({ id, disabled: !disabled }).update(change);
+  return n === 1;
+}
+
 export async function sessionEpoch(db: Knex, id: number): Promise<number> {
   const r = await db("users").where({ id }).first("session_epoch");
   return Number(r?.session_epoch ?? 0);

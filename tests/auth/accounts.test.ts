@@ -375,3 +375,45 @@ describe("several reset links", () => {
     await signedIn(email, "newer-link-pass-1");
   });
 });
+
+describe("disabling an account in the admin page", () => {
+  it("ends the person's sessions and tokens and refuses sign-in; re-enabling lets them sign in again; both logged", async () => {
+    const email = "author@saddlebook.test";
+    const admin = await signedIn("admin@saddlebook.test");
+    const person = await signedIn(email);
+    const target = await t.db("users").where({ email }).first();
+    const { createApiToken } = await import("../../db/access/tokens.server");
+    const { token } = await createApiToken(t.db, target.id, "disable test");
+    const asPerson = () => outcome(() => route.me.loader(args(getRequest("/api/v1/me", { cookie: person.cookie }))));
+    const asToken = () => outcome(() => route.me.loader(args(getRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }))));
+    expect((await asPerson()).status).toBe(200);
+
+    const forged = await outcome(() => route.admin.action(args(formRequest("/admin/users", { csrf: "forged", intent: "disable", userId: String(target.id) }, { cookie: admin.cookie }))));
+    expect(forged.status).toBe(403);
+    const notAdmin = await outcome(() => route.admin.action(args(post(person, "/admin/users", { intent: "disable", userId: String(target.id) }))));
+    expect(notAdmin.status).toBe(403);
+    expect((await t.db("users").where({ id: target.id }).first()).disabled).toBeFalsy();
+
+    const off = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "disable", userId: String(target.id) }))));
+    expect(off.body.ok).toMatch(/is disabled/);
+    expect((await asPerson()).status).toBe(401);
+    expect((await asToken()).status).toBe(401);
+    const v = await visitor();
+    const refused = await outcome(() => route.signIn.action(args(formRequest("/sign-in", { csrf: v.csrf, email, password: DEMO_PASSWORD }, { cookie: v.cookie, ip: "192.0.2.81" }))));
+    expect(refused.status).toBe(400);
+    expect(refused.body.error).toMatch(/disabled/);
+    const page = await outcome(() => route.admin.loader(args(getRequest("/admin/users", { cookie: admin.cookie }))));
+    expect(page.body.users.find((u: { email: string }) => u.email === email).disabled).toBe(true);
+
+    const on = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "enable", userId: String(target.id) }))));
+    expect(on.body.ok).toMatch(/enabled again/);
+    expect((await asToken()).status).toBe(200);
+    expect((await asPerson()).status).toBe(401); // the old session stays ended
+    await signedIn(email);
+
+    const self = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "disable", userId: String(page.body.me) }))));
+    expect(self.status).toBe(409);
+    expect((await t.db("audit_log").where({ action: "user.disable", object_id: String(target.id) })).length).toBe(1);
+    expect((await t.db("audit_log").where({ action: "user.enable", object_id: String(target.id) })).length).toBe(1);
+  });
+});
