@@ -15,13 +15,16 @@ import "@fontsource/noto-sans/600.css";
 import "@fontsource/noto-sans/700.css";
 import "./app.css";
 import { securityHeadersMiddleware } from "./security/headers.server";
+import { apiOriginMiddleware } from "./security/api-origin.server";
+import { apiBodyTypeMiddleware } from "./api/body-type.server";
+import { pageFormMiddleware } from "./security/form-body.server";
 import { requestScopeMiddleware } from "./auth/request-scope.server";
 import { AppShell } from "./components/AppShell";
 import { getOptionalUser } from "./auth/current-user.server";
 import { ensureCsrfToken } from "./auth/csrf.server";
 import { can } from "./auth/policy.server";
 
-export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, requestScopeMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, apiOriginMiddleware, apiBodyTypeMiddleware, pageFormMiddleware, requestScopeMiddleware];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

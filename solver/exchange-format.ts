@@ -29,7 +29,9 @@ import {
   type EnergyUnit,
   type EntropyUnit,
   type TimeUnit,
+  MAX_TEMPERATURE_K,
 } from "./units.ts";
+import { FORMULA_MAX_LENGTH } from "./formula.ts";
 
 /** Value of the "format" field of every document. */
 export const MECHANISM_FORMAT_ID = "saddlebook.mechanism";
@@ -51,7 +53,7 @@ export const EntropyUnitSchema = z.enum(ENTROPY_UNIT_IDS).meta({ description: "M
 export const StandardStateSchema = z.enum(STANDARD_STATE_IDS).meta({ description: "1M: 1 mol/L solution; 1bar, 1atm: ideal gas." });
 
 const finite = () => z.number();
-const kelvin = () => z.number().positive().meta({ description: "Temperature in K." });
+const kelvin = () => z.number().positive().max(MAX_TEMPERATURE_K, `at most ${MAX_TEMPERATURE_K} K`).meta({ description: `Temperature in K (above 0, at most ${MAX_TEMPERATURE_K}).` });
 const text = (max: number) => z.string().max(max);
 
 export const RateUnitSchema = z
@@ -162,7 +164,7 @@ const idString = () => z.string().min(1).max(200);
 export const SpeciesSchema = z.strictObject({
   id: idString().meta({ description: "Identifier used by the steps; unique in the document." }),
   label: text(500).optional(),
-  formula: text(500).optional().meta({ description: "Elements with counts, parentheses and a trailing charge, e.g. Cu(NH3)4+2." }),
+  formula: text(FORMULA_MAX_LENGTH).optional().meta({ description: "Elements with counts, parentheses and a trailing charge, e.g. Cu(NH3)4+2." }),
   charge: z.int().min(-20).max(20).optional(),
   phase: z.enum(["solution", "gas", "solid", "liquid"]).optional(),
   notes: text(10000).optional(),

@@ -14,9 +14,17 @@
  *      "+" / "--" / "+++"            (a run of equal signs: magnitude = run length),
  *      "+2" / "-3"                   (sign then magnitude).
  *    So "NH4+", "SO4^2-", "SO4--", "Cu(NH3)4+2" and "[Cu(NH3)4]^2+" all parse.
+ * Limits (so every stored count and charge is a modest integer): at most 200 characters, each
+ * written count or multiplier at most 100 000, at most 1 000 000 atoms of one element per formula
+ * unit, and a charge of at most 20 either way (the species charge field's range).
  * Errors are typed and carry the 0-based character position in `path` ("formula@7").
  */
 import type { EngineError, Result } from "./types.ts";
+
+export const FORMULA_MAX_LENGTH = 200;
+export const FORMULA_MAX_COUNT = 100_000;
+export const FORMULA_MAX_ATOMS = 1_000_000;
+export const FORMULA_MAX_CHARGE = 20;
 
 const SYMBOLS = (
   "H He Li Be B C N O F Ne Na Mg Al Si P S Cl Ar K Ca Sc Ti V Cr Mn Fe Co Ni Cu Zn Ga Ge As Se Br Kr " +
@@ -41,6 +49,7 @@ function err(message: string, pos: number): { ok: false; error: EngineError } {
 export function parseFormula(formula: string): Result<ParsedFormula> {
   if (typeof formula !== "string" || formula.trim() === "") return err("The formula is empty.", 0);
   const s = formula.trim();
+  if (s.length > FORMULA_MAX_LENGTH) return err(`The formula is longer than ${FORMULA_MAX_LENGTH} characters.`, FORMULA_MAX_LENGTH);
   // --- split off the charge suffix
   let body = s;
   let charge = 0;
@@ -60,6 +69,7 @@ export function parseFormula(formula: string): Result<ParsedFormula> {
     body = s.slice(0, s.length - m[0].length);
   }
   if (body === "") return err("The formula has a charge but no elements.", 0);
+  if (Math.abs(charge) > FORMULA_MAX_CHARGE) return err(`A charge of ${charge} is beyond ±${FORMULA_MAX_CHARGE}.`, body.length);
 
   let pos = 0;
   const counts: Record<string, number> = {};
@@ -68,7 +78,8 @@ export function parseFormula(formula: string): Result<ParsedFormula> {
     const start = pos;
     while (pos < body.length && body[pos] >= "0" && body[pos] <= "9") pos++;
     if (pos === start) return null;
-    return Number(body.slice(start, pos));
+    // More digits than any allowed count: report it as too large (Number would lose the value).
+    return pos - start > 7 ? Infinity : Number(body.slice(start, pos));
   }
 
   // parse a sequence of groups until a closing bracket or separator; returns counts or error
@@ -112,6 +123,7 @@ export function parseFormula(formula: string): Result<ParsedFormula> {
       const cpos = pos;
       const c = readInt();
       if (c === 0) return err("A count must be at least 1.", cpos);
+      if (c !== null && c > FORMULA_MAX_COUNT) return err(`A count must be at most ${FORMULA_MAX_COUNT}.`, cpos);
       const mult = c ?? 1;
       for (const [k, v] of Object.entries(part)) acc[k] = (acc[k] ?? 0) + v * mult;
       any = true;
@@ -124,6 +136,7 @@ export function parseFormula(formula: string): Result<ParsedFormula> {
     const mpos = pos;
     const lead = readInt();
     if (lead === 0) return err("A multiplier must be at least 1.", mpos);
+    if (lead !== null && lead > FORMULA_MAX_COUNT) return err(`A multiplier must be at most ${FORMULA_MAX_COUNT}.`, mpos);
     const seq = parseSeq(null);
     if (!seq.ok) return seq;
     for (const [k, v] of Object.entries(seq.value)) counts[k] = (counts[k] ?? 0) + v * (lead ?? 1);
@@ -132,6 +145,9 @@ export function parseFormula(formula: string): Result<ParsedFormula> {
       pos++;
       if (pos >= body.length) return err("A hydrate separator must be followed by a formula.", pos - 1);
     }
+  }
+  for (const [el, n] of Object.entries(counts)) {
+    if (n > FORMULA_MAX_ATOMS) return err(`The formula has ${n > 1e15 ? "far more than" : n} ${el} atoms; at most ${FORMULA_MAX_ATOMS} of one element are allowed.`, 0);
   }
   return { ok: true, value: { elements: counts, charge } };
 }

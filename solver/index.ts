@@ -11,6 +11,7 @@ export {
   CONCENTRATION_UNITS,
   ENERGY_UNITS,
   ENTROPY_UNITS,
+  MAX_TEMPERATURE_K,
   RATE_CONSTANT_UNITS,
   TEMPERATURE_UNITS,
   TIME_UNITS,
@@ -60,7 +61,7 @@ export {
 export { checkThermoCycles, findThermoCycles, type ThermoCycle } from "./thermo-cycles.ts";
 
 // formulas and element balance
-export { checkElementBalance, parseFormula, type BalanceReport, type BalanceTerm, type ParsedFormula } from "./formula.ts";
+export { FORMULA_MAX_LENGTH, checkElementBalance, parseFormula, type BalanceReport, type BalanceTerm, type ParsedFormula } from "./formula.ts";
 
 // model and simulation
 export { compileMechanism, type CompiledModel, type MechanismInput, type ReactionInput } from "./model.ts";

@@ -100,6 +100,12 @@ export type TemperatureUnit = (typeof TEMPERATURE_UNITS)[number]["id"];
 /** 0 °C in K (exact by definition). */
 export const ZERO_CELSIUS_K = 273.15;
 
+/**
+ * Highest temperature (K) Saddlebook stores or computes with: far above any condensed-phase or
+ * combustion kinetics it is meant for, low enough that no stored value is absurd.
+ */
+export const MAX_TEMPERATURE_K = 10_000;
+
 /** Temperature in `unit` → K; the result must be above 0 K. */
 export function temperatureToK(value: number, unit: TemperatureUnit, path = "value"): Result<number> {
   const bad = checkFinite(value, "The temperature", path);

@@ -12,6 +12,7 @@ import type { Knex } from "knex";
 import { z } from "zod";
 import { apiError } from "./errors.server";
 import { JSON_BODY_LIMIT_BYTES, jsonResponse, readJsonBody } from "./json-request.server";
+import { parseQuery } from "./query.server";
 import { Forbidden, type Actor } from "../auth/policy.server";
 import { ConflictError, InputError, NotFoundError } from "../../db/access/library-errors";
 import {
@@ -85,14 +86,6 @@ async function body(request: Request, limit?: number): Promise<unknown> {
   return b.value;
 }
 
-const list = (v: string | null) =>
-  v
-    ? v
-        .split(",")
-        .map((s) => s.trim())
-        .filter(Boolean)
-    : undefined;
-
 // ---------------------------------------------------------------- query schemas (also in the OpenAPI description)
 
 export const StepSearchParams = z.strictObject({
@@ -108,21 +101,6 @@ export const StepSearchParams = z.strictObject({
   cursor: z.string().max(500).optional(),
   limit: z.coerce.number().int().min(1).max(200).optional(),
 });
-
-function parseQuery<S extends z.ZodType>(schema: S, url: URL, arrays: string[]): z.output<S> {
-  const raw: Record<string, unknown> = {};
-  for (const [k, v] of url.searchParams) raw[k] = arrays.includes(k) ? list(v) : v;
-  const r = schema.safeParse(raw);
-  if (!r.success) {
-    const fields: Record<string, string> = {};
-    for (const i of r.error.issues) {
-      if (i.code === "unrecognized_keys") for (const k of i.keys) fields[k] = `Unknown query parameter "${k}".`;
-      else fields[String(i.path[0] ?? "query")] ??= i.message;
-    }
-    throw new InputError(`${Object.keys(fields)[0]}: ${Object.values(fields)[0]}`, fields);
-  }
-  return r.data;
-}
 
 // ---------------------------------------------------------------- steps
 

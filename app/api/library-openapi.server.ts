@@ -91,7 +91,7 @@ export function openApiDocument(): Record<string, unknown> {
       title: "Saddlebook API — step library and mechanisms",
       version: "1",
       description:
-        "JSON over HTTPS. Authenticate with the browser session or `Authorization: Bearer <token>`. Errors: {\"error\":{\"code\",\"message\",\"fields\"}}. Lists: {\"items\",\"nextCursor\"} with `cursor` and `limit` (1–200). Saves carry `baseVersion` (or If-Match with the ETag from GET); a stale one gets 409. Energies in requests carry their unit; derived values in responses are SI (J/mol, K).",
+        "JSON over HTTPS. Authenticate with the browser session or `Authorization: Bearer <token>`. Errors: {\"error\":{\"code\",\"message\",\"fields\"}}. Lists: {\"items\",\"nextCursor\"} with `cursor` and `limit` (1–200). Saves carry `baseVersion` (or If-Match with the ETag from GET); a stale one gets 409. Bodies are JSON (`Content-Type: application/json`; another declared type gets 415). A change signed in by the session cookie is accepted from Saddlebook's own pages only (another origin gets 403 `cross_origin`). Energies in requests carry their unit; derived values in responses are SI (J/mol, K).",
     },
     servers: [{ url: "/api/v1" }],
     security: [{ bearer: [] }, { session: [] }],

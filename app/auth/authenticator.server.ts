@@ -20,7 +20,7 @@ import {
 import { clientAddress } from "./client-address.server";
 import { verifyPassword } from "./password.server";
 import { checkSignInAllowed, recordSignInAttempt } from "./rate-limit.server";
-import { OidcStrategy, oidcConfig, verifyIdToken, type IdClaims } from "./oidc.server";
+import { OidcStrategy, oidcConfig, oidcNonce, verifyIdToken, type IdClaims } from "./oidc.server";
 
 export interface SignedIn {
   userId: number;
@@ -31,7 +31,7 @@ export interface SignedIn {
 export class SignInError extends Error {
   constructor(
     message: string,
-    readonly code: "invalid" | "unverified" | "limited" | "disabled" | "provider" = "invalid",
+    readonly code: "invalid" | "unverified" | "limited" | "disabled" | "unavailable" | "unconfirmed-email" | "no-subject" | "other-subject" = "invalid",
     readonly email?: string,
   ) {
     super(message);
@@ -101,7 +101,7 @@ export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): 
         action: "sign-in.failure",
         objectType: known ? "user" : null,
         objectId: known?.id ?? null,
-        detail: { method: "oidc", email: claims.email, reason: e.code === "disabled" ? "disabled" : "unconfirmed-email" },
+        detail: { method: "oidc", email: claims.email, reason: e.code },
         ip,
       });
     }
@@ -111,14 +111,19 @@ export async function userFromIdClaims(db: Knex, claims: IdClaims, ip: string): 
 
 async function linkOrCreate(db: Knex, claims: IdClaims, ip: string): Promise<SignedIn> {
   return db.transaction(async (trx) => {
-    let user = claims.sub ? await findUserByOidcSubject(trx, claims.sub) : null;
+    if (!claims.sub) throw new SignInError("The sign-in provider did not name the person; try again.", "no-subject");
+    let user = await findUserByOidcSubject(trx, claims.sub);
     if (!user) {
       const byEmail = await findUserByEmail(trx, claims.email);
       if (byEmail) {
         if (!claims.emailVerified) {
-          throw new SignInError("The sign-in provider has not confirmed this e-mail address, so it cannot be linked to the existing account.", "provider");
+          throw new SignInError("The sign-in provider has not confirmed this e-mail address, so it cannot be linked to the existing account.", "unconfirmed-email");
         }
-        if (claims.sub && !byEmail.oidcSubject) await linkOidcSubject(trx, byEmail.id, claims.sub);
+        // An account is bound to one single sign-on identity (its subject was not found above):
+        // another subject with the same address is not that person, and is never bound in its place.
+        if (!(await linkOidcSubject(trx, byEmail.id, claims.sub))) {
+          throw new SignInError("This account is linked to a different single sign-on identity; sign in with that one, or with e-mail and password.", "other-subject");
+        }
         await markEmailVerified(trx, byEmail.id);
         user = byEmail;
       }
@@ -130,7 +135,7 @@ async function linkOrCreate(db: Knex, claims: IdClaims, ip: string): Promise<Sig
         name: claims.name,
         role: defaultRole(),
         verified: claims.emailVerified,
-        oidcSubject: claims.sub || null,
+        oidcSubject: claims.sub,
       });
       await audit(trx, { userId: id, action: "user.create", objectType: "user", objectId: id, detail: { method: "oidc", role: defaultRole() }, ip });
       user = (await findUserByEmail(trx, claims.email))!;
@@ -170,7 +175,9 @@ async function build(): Promise<Authenticator<SignedIn>> {
         },
       },
       async ({ tokens, request }) => {
-        const claims = await verifyIdToken(cfg, tokens.idToken());
+        // The state in the callback URL has been checked against the browser's state cookie.
+        const state = new URL(request.url).searchParams.get("state") ?? "";
+        const claims = await verifyIdToken(cfg, tokens.idToken(), { nonce: oidcNonce(state) });
         return userFromIdClaims(getDb(), claims, clientAddress(request));
       },
     );
@@ -185,7 +192,7 @@ export function getAuthenticator(): Promise<Authenticator<SignedIn>> {
     authenticator = undefined;
     throw new SignInError(
       `The single sign-on provider at ${oidcConfig()?.issuer ?? "(not configured)"} is not answering; try again, or sign in with e-mail and password.`,
-      "provider",
+      "unavailable",
     );
   });
   return authenticator;

@@ -4,11 +4,15 @@
  * it to a Saddlebook user.
  *
  * The ID token's signature is checked against the provider's published keys (RS256),
- * and its issuer, audience and expiry against our configuration (OpenID Connect Core
- * 1.0, section 3.1.3.7).
+ * and its issuer, audience, expiry and nonce against our configuration and this sign-in
+ * (OpenID Connect Core 1.0, sections 3.1.2.1 and 3.1.3.7). The nonce is derived from the
+ * sign-in's `state` (kept in the browser's state cookie) with a keyed hash, so an ID token
+ * issued for another browser's sign-in is refused. An e-mail address counts as confirmed
+ * only when the token says `email_verified: true`.
  */
-import { createPublicKey, verify as verifySignature, type JsonWebKey } from "node:crypto";
+import { createHmac, createPublicKey, timingSafeEqual, verify as verifySignature, type JsonWebKey } from "node:crypto";
 import { OAuth2Strategy } from "remix-auth-oauth2";
+import { sessionSecret } from "./session.server";
 
 export interface OidcConfig {
   issuer: string;
@@ -80,8 +84,23 @@ function b64json(part: string): Record<string, unknown> {
   return JSON.parse(Buffer.from(part, "base64url").toString("utf8")) as Record<string, unknown>;
 }
 
-/** Checks an ID token and returns its identity claims. */
-export async function verifyIdToken(cfg: OidcConfig, idToken: string, now = Date.now()): Promise<IdClaims> {
+/** The nonce sent with the authorization request whose `state` is given (keyed hash, base64url). */
+export function oidcNonce(state: string): string {
+  return createHmac("sha256", sessionSecret()).update(`saddlebook-oidc-nonce\0${state}`).digest("base64url");
+}
+
+function sameText(a: string, b: string): boolean {
+  const x = Buffer.from(a);
+  const y = Buffer.from(b);
+  return x.length === y.length && timingSafeEqual(x, y);
+}
+
+/**
+ * Checks an ID token and returns its identity claims. `expect.nonce`, when given, must be the
+ * token's nonce (the sign-in flow always gives it).
+ */
+export async function verifyIdToken(cfg: OidcConfig, idToken: string, expect: { nonce?: string; now?: number } = {}): Promise<IdClaims> {
+  const now = expect.now ?? Date.now();
   const parts = idToken.split(".");
   if (parts.length !== 3) throw new IdTokenProblem("The sign-in provider sent a malformed ID token.");
   const header = b64json(parts[0]);
@@ -108,16 +127,24 @@ export async function verifyIdToken(cfg: OidcConfig, idToken: string, now = Date
   const aud = Array.isArray(payload.aud) ? payload.aud : [payload.aud];
   if (!aud.includes(cfg.clientId)) throw new IdTokenProblem("The ID token was issued for another application.");
   if (typeof payload.exp !== "number" || payload.exp * 1000 < now - 60_000) throw new IdTokenProblem("The ID token has expired; sign in again.");
+  if (expect.nonce !== undefined && (typeof payload.nonce !== "string" || !sameText(payload.nonce, expect.nonce))) {
+    throw new IdTokenProblem("The ID token does not belong to this sign-in (its nonce does not match); start again.");
+  }
+  const sub = typeof payload.sub === "string" ? payload.sub.trim() : "";
+  if (!sub || sub.length > 200) throw new IdTokenProblem("The sign-in provider did not name the person (no subject in the ID token).");
   const email = typeof payload.email === "string" ? payload.email.trim().toLowerCase() : "";
   if (!email || !email.includes("@")) throw new IdTokenProblem("The sign-in provider did not share an e-mail address; Saddlebook needs one.");
   const name = typeof payload.name === "string" && payload.name.trim() ? payload.name.trim() : email.split("@")[0];
-  return { sub: String(payload.sub ?? ""), email, emailVerified: payload.email_verified !== false, name };
+  // Only an explicit true counts (some providers send the string "true"); a missing claim is not a confirmation.
+  const emailVerified = payload.email_verified === true || payload.email_verified === "true";
+  return { sub, email, emailVerified, name };
 }
 
-/** OAuth2 strategy that forwards a `login_hint` from the sign-in link to the provider. */
+/** OAuth2 strategy that sends the nonce for this sign-in and forwards a `login_hint` from the sign-in link. */
 export class OidcStrategy<U> extends OAuth2Strategy<U> {
   protected override authorizationParams(params: URLSearchParams, request: Request): URLSearchParams {
     const p = new URLSearchParams(params);
+    p.set("nonce", oidcNonce(p.get("state") ?? ""));
     const hint = new URL(request.url).searchParams.get("login_hint");
     if (hint) p.set("login_hint", hint.slice(0, 254));
     return p;

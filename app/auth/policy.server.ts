@@ -59,8 +59,8 @@ export type Action =
   | { do: "group.create" }
   | { do: "group.read"; groupId: number }
   | { do: "group.manage"; groupId: number } // invite, change group roles, remove members
-  // Change a group member's global role. Group admins move members between viewer and
-  // author; only site admins grant curator or admin (or change a curator's or admin's role).
+  // Change a group member's site-wide role (from the group page). Site-wide roles reach past
+  // the group, so only site admins change them; a group admin manages group roles only.
   | { do: "member.setRole"; groupId: number; from: Role; to: Role };
 
 const RANK: Record<Role, number> = { viewer: 0, author: 1, curator: 2, admin: 3 };
@@ -129,12 +129,8 @@ export function can(actor: Actor | null, action: Action): boolean {
       return !!actor && (actor.role === "admin" || actor.groupIds.includes(action.groupId));
     case "group.manage":
       return !!actor && (actor.role === "admin" || (actor.adminGroupIds ?? []).includes(action.groupId));
-    case "member.setRole": {
-      if (!actor) return false;
-      if (actor.role === "admin") return true;
-      const low = (r: Role) => r === "viewer" || r === "author";
-      return (actor.adminGroupIds ?? []).includes(action.groupId) && low(action.from) && low(action.to);
-    }
+    case "member.setRole":
+      return atLeast(actor, "admin");
   }
 }
 

@@ -1,7 +1,8 @@
 /**
  * The session cookie: signed with SESSION_SECRET, httpOnly, SameSite=Lax, Secure when
  * the app is served over https in production, 12-hour lifetime (renewed on sign-in).
- * It holds the user id, the CSRF token and the time of sign-in; nothing else.
+ * It holds the user id, the CSRF token and the time of sign-in; nothing else. Signing out
+ * records (user id, time of sign-in) as ended on the server (db/access/sessions.server.ts).
  */
 import { createCookie, createCookieSessionStorage, type Cookie, type Session } from "react-router";
 
@@ -27,7 +28,8 @@ export const SESSION_COOKIE = "__saddlebook";
 type Storage = ReturnType<typeof createCookieSessionStorage<SessionData, SessionFlash>>;
 let storage: Storage | undefined;
 
-function secret(): string {
+/** SESSION_SECRET (development and test runs without one get a random secret per process). */
+export function sessionSecret(): string {
   const s = process.env.SESSION_SECRET;
   if (s && s.length >= 16) return s;
   if (process.env.NODE_ENV === "production") {
@@ -91,7 +93,7 @@ export function sessionStorage(): Storage {
         secure: secureCookies(),
         path: "/",
         maxAge: SESSION_MAX_AGE_S,
-        secrets: [secret()],
+        secrets: [sessionSecret()],
       }),
     ),
   });

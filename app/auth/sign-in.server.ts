@@ -1,14 +1,32 @@
 /** Starting and ending sessions, and the safe "come back here" address. */
 import { redirect } from "react-router";
-import { commitSession, destroySession, getSession } from "./session.server";
+import { SESSION_MAX_AGE_S, commitSession, destroySession, getSession, sessionUserId } from "./session.server";
 import { newCsrfToken } from "./csrf.server";
 import { getDb } from "../../db/client.server";
 import { sessionEpoch } from "../../db/access/users.server";
+import { endSessionRecord } from "../../db/access/sessions.server";
 
-/** Only same-site paths ("/x", not "//host" or "https://…"); else the dashboard. */
+const NEXT_BASE = new URL("http://saddlebook.invalid/");
+
+/**
+ * The one check of every "come back here" address (sign-in, single sign-on): `next` is resolved
+ * as a URL, as a browser would (tabs and line breaks dropped, backslashes read as slashes), and
+ * only a path on this site is kept, in its encoded form (safe in a Location header). Anything
+ * that would leave the site, or is not a path at all, gives `fallback`.
+ */
 export function safeNext(next: unknown, fallback = "/"): string {
-  if (typeof next !== "string" || !next.startsWith("/") || next.startsWith("//") || next.startsWith("/\\")) return fallback;
-  return next.slice(0, 500);
+  if (typeof next !== "string" || !next.startsWith("/") || next.length > 2000) return fallback;
+  let url: URL;
+  try {
+    url = new URL(next, NEXT_BASE);
+  } catch {
+    return fallback;
+  }
+  if (url.origin !== NEXT_BASE.origin) return fallback;
+  const path = url.pathname + url.search + url.hash;
+  // A path that still starts with two slashes (or a slash and a backslash) would be read as another host.
+  if (!path.startsWith("/") || /^\/[/\\]/.test(path) || path.length > 500) return fallback;
+  return path;
 }
 
 /** A fresh session for the user (new CSRF token), then a redirect. */
@@ -23,8 +41,14 @@ export async function startSession(request: Request, userId: number, method: str
   return redirect(to, { headers: { "Set-Cookie": await commitSession(session) } });
 }
 
+/**
+ * Ends the session on the server as well as in the browser: the cookie's (user, sign-in moment)
+ * is recorded as ended, so a copy of the cookie replayed later signs nobody in.
+ */
 export async function endSession(request: Request, to = "/"): Promise<Response> {
   const session = await getSession(request);
+  const userId = sessionUserId(session);
+  if (userId !== null) await endSessionRecord(getDb(), userId, session.get("signedInAt")!, Date.now() - SESSION_MAX_AGE_S * 1000);
   return redirect(to, { headers: { "Set-Cookie": await destroySession(session) } });
 }
 

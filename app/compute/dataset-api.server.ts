@@ -3,7 +3,8 @@
  *   GET  /api/v1/datasets        datasets the caller may read
  *   POST /api/v1/datasets        {"name","temperature":{"value","unit":"K"|"degC"},"timeUnit":"s"|"min"|"h",
  *                                 "concentrationUnit":"mol/L"|"mmol/L"|"umol/L","csv":"<text>","mapping":{"time","species":{column: id}},
- *                                 "notes"?,"mechanismId"?} → 201 {dataset}; bad rows → 422 with fields "line N"
+ *                                 "notes"?,"mechanismId"?} → 201 {dataset}; bad rows → 422 with fields "line N";
+ *                                 a mechanismId the caller cannot read (or that does not exist) → 404
  *   GET  /api/v1/datasets/:id    the dataset with its rows (as entered) and in SI (s, mol/L)
  */
 import { z } from "zod";
@@ -11,7 +12,8 @@ import type { Knex } from "knex";
 import { apiError } from "~/api/errors.server";
 import { invalidBody, jsonResponse, readJsonBody, zodFields } from "~/api/json-request.server";
 import { can, type Actor } from "~/auth/policy.server";
-import { MappingSchema, applyMapping, parseCsv, MAX_CSV_BYTES } from "~/components/workbench/dataset-csv";
+import { MappingSchema, applyMapping, datasetTemperatureProblem, parseCsv, MAX_CSV_BYTES } from "~/components/workbench/dataset-csv";
+import { mechanismReadable } from "../../db/access/mechanisms.server";
 import { createDataset, datasetAsOwned, datasetInSI, getDataset, listDatasets, type DatasetRecord } from "../../db/access/datasets.server";
 
 export const DatasetCreateSchema = z.strictObject({
@@ -67,8 +69,13 @@ export async function handleCreateDataset(db: Knex, actor: Actor, request: Reque
     for (const e of mapped.errors.slice(0, 100)) fields[`line ${e.line}`] = e.message;
     return apiError(422, "invalid_rows", mapped.message, fields);
   }
+  if (b.mechanismId !== undefined && !(await mechanismReadable(db, actor, b.mechanismId))) {
+    const message = `There is no mechanism ${b.mechanismId} that you can see.`;
+    return apiError(404, "not_found", message, { mechanismId: message });
+  }
   const TK = b.temperature.unit === "K" ? b.temperature.value : b.temperature.value + 273.15;
-  if (!(TK > 0)) return apiError(422, "temperature", "The temperature must be above absolute zero.", { "temperature.value": "must be above 0 K" });
+  const badT = datasetTemperatureProblem(TK);
+  if (badT) return apiError(422, "temperature", badT.message, { "temperature.value": badT.field });
   const id = await createDataset(db, { ownerId: actor.id, name: b.name, notes: b.notes ?? null, mechanismId: b.mechanismId ?? null, temperatureK: TK, timeUnit: b.timeUnit, concentrationUnit: b.concentrationUnit, mapping: b.mapping, rows: mapped.value });
   return jsonResponse({ dataset: datasetJson((await getDataset(db, id))!) }, { status: 201, headers: { Location: `/api/v1/datasets/${id}` } });
 }

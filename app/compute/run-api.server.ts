@@ -2,7 +2,7 @@
  * REST handlers for stored runs:
  *   POST /api/v1/runs              {"mechanism": <exchange-format document>} or {"mechanismId", "mechanismVersion"?},
  *                                  "conditions" (as /api/v1/simulate), "solver"?, "analysis"?, "name"?  → 202 {run}
- *   GET  /api/v1/runs              runs the caller may read (newest first)
+ *   GET  /api/v1/runs              runs the caller may read (newest first); ?mechanismId, ?limit (1–500, default 100)
  *   GET  /api/v1/runs/:id          status, progress (simulated time reached, s), analysis and statistics when done;
  *                                  ?series=1 adds times (s), temperatures (K) and concentrations (mol/L)
  *   POST /api/v1/runs/:id/cancel   stop a queued or running run
@@ -13,6 +13,7 @@ import { z } from "zod";
 import type { Knex } from "knex";
 import { apiError } from "~/api/errors.server";
 import { invalidBody, jsonResponse, readJsonBody, zodFields } from "~/api/json-request.server";
+import { readQuery } from "~/api/query.server";
 import { can, type Actor } from "~/auth/policy.server";
 import { MechanismDocumentSchema, documentToEngine, validateMechanismDocument, type MechanismDocument } from "../../solver/exchange-format";
 import { compileMechanism } from "../../solver/index";
@@ -174,10 +175,15 @@ export async function handleGetRun(db: Knex, actor: Actor | null, idParam: strin
   return jsonResponse({ run: runJson(r.run, { series }) });
 }
 
+export const RunListParams = z.strictObject({
+  mechanismId: z.coerce.number().int().positive().optional().meta({ description: "Only runs of this mechanism." }),
+  limit: z.coerce.number().int().min(1).max(500).optional().meta({ description: "At most this many runs, newest first (1–500, default 100)." }),
+});
+
 export async function handleListRuns(db: Knex, actor: Actor, request: Request): Promise<Response> {
-  const url = new URL(request.url);
-  const mech = url.searchParams.get("mechanismId");
-  const runs = await listRuns(db, actor, { mechanismId: mech ? Number(mech) : undefined, limit: Number(url.searchParams.get("limit") ?? 100) || 100 });
+  const q = readQuery(RunListParams, new URL(request.url));
+  if (!q.ok) return q.response;
+  const runs = await listRuns(db, actor, { mechanismId: q.value.mechanismId, limit: q.value.limit ?? 100 });
   return jsonResponse({ runs: runs.map((r) => runJson(r)) });
 }
 

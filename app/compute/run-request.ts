@@ -8,7 +8,7 @@
  */
 import { z } from "zod";
 import type { OutputGrid, Result, TemperatureProgram } from "../../solver/index";
-import { concentrationToMolPerL, temperatureToK, timeToSeconds, type TimeUnit } from "../../solver/index";
+import { MAX_TEMPERATURE_K, concentrationToMolPerL, temperatureToK, timeToSeconds, type TimeUnit } from "../../solver/index";
 
 export const TEMPERATURE_UNITS = ["K", "degC", "°C"] as const;
 export const TIME_UNITS = ["s", "min", "h", "d"] as const;
@@ -20,7 +20,9 @@ export const RUN_DEFAULT_WALL_MS = 20_000;
 export const RUN_MAX_STEPS = 2_000_000;
 export const RUN_MAX_VALUES = 5_000_000; // output points × species
 
-const Temperature = z.strictObject({ value: z.number(), unit: z.enum(TEMPERATURE_UNITS) });
+const Temperature = z
+  .strictObject({ value: z.number(), unit: z.enum(TEMPERATURE_UNITS) })
+  .refine((t) => (t.unit === "K" ? t.value : t.value + 273.15) <= MAX_TEMPERATURE_K, { message: `must be at most ${MAX_TEMPERATURE_K} K`, path: ["value"] });
 const Duration = z.strictObject({ value: z.number().positive("must be positive"), unit: z.enum(TIME_UNITS) });
 const TimePoint = z.strictObject({ value: z.number().nonnegative("must be 0 or later"), unit: z.enum(TIME_UNITS) });
 

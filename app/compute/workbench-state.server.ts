@@ -4,14 +4,12 @@
  * named condition presets. Only a user who may write the mechanism saves them.
  */
 import type { Knex } from "knex";
-import { z } from "zod";
+import type { z } from "zod";
+import { PositionsSchema, PresetSchema, type Preset } from "~/components/workbench/layout-schema";
 import { assertCan, type Actor } from "~/auth/policy.server";
 import { owned } from "../../db/access/mechanisms.server";
 
-const Position = z.object({ x: z.number().finite(), y: z.number().finite() });
-export const PositionsSchema = z.record(z.string().max(220), Position).refine((p) => Object.keys(p).length <= 50_000, "Too many nodes.");
-export const PresetSchema = z.object({ name: z.string().trim().min(1, "Give the preset a name.").max(100), draft: z.record(z.string(), z.unknown()) });
-export type Preset = z.infer<typeof PresetSchema>;
+export { PositionsSchema, PresetSchema, type Preset } from "~/components/workbench/layout-schema";
 
 function parse<T>(v: unknown): T | null {
   if (v === null || v === undefined) return null;

@@ -1,4 +1,4 @@
-/** Admin: every user in a sortable, filterable table; change global roles; recent sign-in and role events. */
+/** Admin: every user in a sortable, filterable table; change global roles; disable and re-enable accounts; recent sign-in and role events. */
 import { useMemo, useState } from "react";
 import { data, Form, Link } from "react-router";
 import {
@@ -19,7 +19,7 @@ import { clientAddress } from "~/auth/client-address.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { Notice } from "~/auth/ui/AuthCard";
 import { getDb } from "../../db/client.server";
-import { findUserById, listUsers, setRole } from "../../db/access/users.server";
+import { findUserById, listUsers, setDisabled, setRole } from "../../db/access/users.server";
 import type { UserListRow } from "../../db/access/users.server";
 import { audit, listAudit } from "../../db/access/audit.server";
 
@@ -42,33 +42,69 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
+type Outcome = { ok: string | null; error: string | null };
+const refuse = (status: number, error: string) => data<Outcome>({ ok: null, error }, { status });
+
 export async function action({ request }: Route.ActionArgs) {
   const me = await requireCan(request, { do: "user.manage" }, "Only admins manage users.");
   const form = await request.formData();
   await assertCsrf(request, form);
   const db = getDb();
   const userId = Number(form.get("userId"));
-  const role = z.enum(ROLES as unknown as [Role, ...Role[]]).safeParse(form.get("role"));
-  if (!role.success) return data({ ok: null as string | null, error: "Choose viewer, author, curator or admin." }, { status: 400 });
-  const target = Number.isInteger(userId) ? await findUserById(db, userId) : null;
-  if (!target) return data({ ok: null, error: "There is no such user." }, { status: 404 });
-  if (target.id === me.id && role.data !== "admin") {
-    return data({ ok: null, error: "You cannot take away your own admin role; ask another admin." }, { status: 409 });
+  const target = Number.isInteger(userId) && userId > 0 ? await findUserById(db, userId) : null;
+  const intent = String(form.get("intent") ?? "role");
+  if (intent === "disable" || intent === "enable") {
+    if (!target) return refuse(404, "There is no such user.");
+    const disable = intent === "disable";
+    if (disable && target.id === me.id) return refuse(409, "You cannot disable your own account; ask another admin.");
+    const changed = await db.transaction(async (trx) => {
+      if (!(await setDisabled(trx, target.id, disable))) return false;
+      await audit(trx, { userId: me.id, action: disable ? "user.disable" : "user.enable", objectType: "user", objectId: target.id, detail: { email: target.email }, ip: clientAddress(request) });
+      return true;
+    });
+    if (!changed) return { ok: `${target.email} is already ${disable ? "disabled" : "enabled"}.`, error: null } satisfies Outcome;
+    return {
+      ok: disable ? `${target.email} is disabled: signed out everywhere, their API tokens refused, and they cannot sign in.` : `${target.email} is enabled again and can sign in.`,
+      error: null,
+    } satisfies Outcome;
   }
-  if (target.role === role.data) return { ok: `${target.email} is already ${role.data}.`, error: null };
+  if (intent !== "role") return refuse(400, "Unknown request.");
+  const role = z.enum(ROLES as unknown as [Role, ...Role[]]).safeParse(form.get("role"));
+  if (!role.success) return refuse(400, "Choose viewer, author, curator or admin.");
+  if (!target) return refuse(404, "There is no such user.");
+  if (target.id === me.id && role.data !== "admin") return refuse(409, "You cannot take away your own admin role; ask another admin.");
+  if (target.role === role.data) return { ok: `${target.email} is already ${role.data}.`, error: null } satisfies Outcome;
   await db.transaction(async (trx) => {
     await setRole(trx, target.id, role.data);
     await audit(trx, { userId: me.id, action: "role.change", objectType: "user", objectId: target.id, detail: { role: { from: target.role, to: role.data } }, ip: clientAddress(request) });
   });
-  return { ok: `${target.email} is now ${role.data}.`, error: null };
+  return { ok: `${target.email} is now ${role.data}.`, error: null } satisfies Outcome;
 }
 
 const col = createColumnHelper<UserListRow>();
+
+/** The account's state, with the button that disables or re-enables it (not for one's own account). */
+function StateCell({ row, me }: { row: UserListRow; me: number }) {
+  const state = row.disabled ? "disabled" : row.verified ? "confirmed" : "unconfirmed";
+  return (
+    <Form method="post" className="flex items-center gap-2">
+      <CsrfInput />
+      <input type="hidden" name="userId" value={row.id} />
+      <span className={row.disabled ? "text-brick-700" : undefined}>{state}</span>
+      {row.id !== me && (
+        <button className="btn-quiet py-0.5" name="intent" value={row.disabled ? "enable" : "disable"} type="submit" aria-label={`${row.disabled ? "Enable" : "Disable"} ${row.email}`}>
+          {row.disabled ? "Enable" : "Disable"}
+        </button>
+      )}
+    </Form>
+  );
+}
 
 function RoleCell({ row, roles }: { row: UserListRow; roles: string[] }) {
   return (
     <Form method="post" className="flex gap-1">
       <CsrfInput />
+      <input type="hidden" name="intent" value="role" />
       <input type="hidden" name="userId" value={row.id} />
       <select name="role" defaultValue={row.role} className="field w-28 py-0.5" aria-label={`Role of ${row.email}`}>
         {roles.map((r) => (
@@ -93,7 +129,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
       col.accessor("email", { header: "E-mail", cell: (c) => <span className="num">{c.getValue()}</span> }),
       col.accessor("role", { header: "Role", cell: (c) => <RoleCell row={c.row.original} roles={loaderData.roles} /> }),
       col.accessor((u) => u.groups.join(", "), { id: "groups", header: "Groups" }),
-      col.accessor((u) => (u.disabled ? "disabled" : u.verified ? "confirmed" : "unconfirmed"), { id: "state", header: "State" }),
+      col.accessor((u) => (u.disabled ? "disabled" : u.verified ? "confirmed" : "unconfirmed"), { id: "state", header: "State", cell: (c) => <StateCell row={c.row.original} me={loaderData.me} /> }),
       col.accessor((u) => (u.sso ? "single sign-on" : "password"), { id: "signin", header: "Signs in with" }),
       col.accessor("lastSignInAt", {
         header: "Last sign-in",
@@ -101,7 +137,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
         cell: (c) => <span className="num">{c.getValue() ? c.getValue()!.replace("T", " ").slice(0, 16) : "—"}</span>,
       }),
     ],
-    [loaderData.roles],
+    [loaderData.roles, loaderData.me],
   );
   const table = useReactTable({
     data: rows,

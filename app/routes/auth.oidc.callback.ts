@@ -1,7 +1,8 @@
 /** GET /auth/oidc/callback: the provider sends the person back here with a code. */
 import { redirect } from "react-router";
 import type { Route } from "./+types/auth.oidc.callback";
-import { getAuthenticator, SignInError } from "~/auth/authenticator.server";
+import { getAuthenticator } from "~/auth/authenticator.server";
+import { ssoProblem, signInProblemPath } from "~/auth/sign-in-problems.server";
 import { safeNext, startSession } from "~/auth/sign-in.server";
 import { getSession } from "~/auth/session.server";
 
@@ -18,11 +19,9 @@ export async function loader({ request }: Route.LoaderArgs) {
     return response;
   } catch (e) {
     if (e instanceof Response) throw e;
-    let message = "Single sign-on did not complete; try again.";
-    if (e instanceof SignInError) message = e.message;
-    else if (e instanceof Error && /state/i.test(e.message)) message = "The sign-in took too long or was started in another window; start again.";
-    else if (e instanceof Error && e.name === "OAuth2RequestError") message = `The sign-in provider refused: ${e.message}`;
-    else console.error("OIDC callback:", e);
-    return redirect("/sign-in?error=" + encodeURIComponent(message), { headers: { "Set-Cookie": CLEAR_STATE } });
+    const problem = ssoProblem(e);
+    // The provider's own words go to the server log, never into the page address.
+    if (problem === "sso-failed" || problem === "sso-refused" || problem === "sso-token") console.error("OIDC callback:", e instanceof Error ? e.message : e);
+    return redirect(signInProblemPath(problem), { headers: { "Set-Cookie": CLEAR_STATE } });
   }
 }

@@ -4,10 +4,11 @@ import type { Route } from "./+types/auth.oidc";
 import { getAuthenticator, SignInError } from "~/auth/authenticator.server";
 import { oidcConfig } from "~/auth/oidc.server";
 import { safeNext } from "~/auth/sign-in.server";
+import { signInProblemPath, ssoProblem } from "~/auth/sign-in-problems.server";
 import { commitSession, getSession } from "~/auth/session.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
-  if (!oidcConfig()) return redirect("/sign-in?error=" + encodeURIComponent("Single sign-on is not configured on this server."));
+  if (!oidcConfig()) return redirect(signInProblemPath("sso-off"));
   const next = safeNext(new URL(request.url).searchParams.get("next"));
   try {
     const auth = await getAuthenticator();
@@ -20,8 +21,8 @@ export async function loader({ request }: Route.LoaderArgs) {
       e.headers.append("Set-Cookie", await commitSession(session));
       throw e;
     }
-    const message = e instanceof SignInError ? e.message : "Single sign-on could not start; try again.";
-    return redirect("/sign-in?error=" + encodeURIComponent(message));
+    if (!(e instanceof SignInError)) console.error("OIDC start:", e);
+    return redirect(signInProblemPath(e instanceof SignInError ? ssoProblem(e) : "sso-start"));
   }
   return redirect("/");
 }

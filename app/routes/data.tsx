@@ -9,8 +9,9 @@ import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { can } from "~/auth/policy.server";
 import { CsrfInput } from "~/components/CsrfInput";
-import { DatasetMetaSchema, MappingSchema, applyMapping, guessMapping, guessTimeUnit, parseCsv, type Mapping, type RowError } from "~/components/workbench/dataset-csv";
+import { DatasetMetaSchema, MappingSchema, applyMapping, datasetTemperatureProblem, guessMapping, guessTimeUnit, parseCsv, type Mapping, type RowError } from "~/components/workbench/dataset-csv";
 import { getDb } from "../../db/client.server";
+import { mechanismReadable } from "../../db/access/mechanisms.server";
 import { createDataset, listDatasets } from "../../db/access/datasets.server";
 
 export function meta(): Route.MetaDescriptors {
@@ -72,7 +73,11 @@ export async function action({ request }: Route.ActionArgs): Promise<ActionData 
   if (!mapped.ok) return { message: mapped.message, errors: mapped.errors, fields: { csv: mapped.message } };
   const m = meta.data;
   const TK = m.temperatureUnit === "degC" ? m.temperature + 273.15 : m.temperature;
-  if (!(TK > 0)) return { message: "The temperature must be above absolute zero.", errors: [], fields: { temperature: "must be above 0 K" } };
+  const badT = datasetTemperatureProblem(TK);
+  if (badT) return { message: badT.message, errors: [], fields: { temperature: badT.field } };
+  if (m.mechanismId !== undefined && !(await mechanismReadable(getDb(), user, m.mechanismId))) {
+    return { message: `There is no mechanism ${m.mechanismId} that you can see.`, errors: [], fields: { mechanismId: "no such mechanism" } };
+  }
   const id = await createDataset(getDb(), {
     ownerId: user.id,
     name: m.name,

@@ -117,7 +117,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const target = await findUserById(db, memberId);
     if (!target) return fail(404, "That person no longer has an account.");
     if (!can(user, { do: "member.setRole", groupId: group.id, from: target.role, to: to.data })) {
-      return fail(403, "Group admins move members between viewer and author; ask a site admin for curator or admin.");
+      return fail(403, "Site-wide roles (viewer, author, curator, admin) are changed by a site admin only; a group admin manages group roles.");
     }
     if (target.role === to.data) return data<Result>({ ok: "No change.", error: null });
     await db.transaction(async (trx) => {

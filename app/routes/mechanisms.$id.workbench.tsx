@@ -5,7 +5,7 @@
  * ?version=N works on an earlier version.
  */
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { Link, useFetcher, useRevalidator, useRouteLoaderData } from "react-router";
+import { data, Link, useFetcher, useRevalidator, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/mechanisms.$id.workbench";
 import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
@@ -76,22 +76,29 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
+/** A form field holding JSON (written by the page's own script), or `unreadable` when it is not JSON. */
+const unreadable = Symbol("unreadable");
+function jsonField(form: FormData, name: string, absent: string): unknown {
+  try {
+    return JSON.parse(String(form.get(name) ?? absent));
+  } catch {
+    return unreadable;
+  }
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const form = await request.formData();
   await assertCsrf(request, form);
   const db = getDb();
   const id = Number(params.id);
+  if (!Number.isInteger(id) || id <= 0) throw new Response("Not found", { status: 404 });
   const intent = String(form.get("intent"));
+  const refuse = (error: string) => data({ intent, error }, { status: 400 });
   if (intent === "graph-edit") {
     try {
-      let raw: unknown;
-      try {
-        raw = JSON.parse(String(form.get("payload") ?? ""));
-      } catch {
-        raw = null;
-      }
-      const r = await applyGraphEdit(db, user, id, raw);
+      const raw = jsonField(form, "payload", "");
+      const r = await applyGraphEdit(db, user, id, raw === unreadable ? null : raw);
       return { intent, ok: true as const, version: r.version };
     } catch (e) {
       return graphEditFailure(e);
@@ -99,20 +106,26 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   try {
     if (intent === "layout") {
-      const p = PositionsSchema.safeParse(JSON.parse(String(form.get("positions") ?? "{}")));
-      if (!p.success) return { intent, error: "The layout could not be read." };
+      const positions = jsonField(form, "positions", "{}");
+      if (positions === unreadable) return refuse("The layout could not be read: it is not JSON.");
+      const p = PositionsSchema.safeParse(positions);
+      if (!p.success) return refuse(`The layout could not be read: ${p.error.issues[0].message}`);
       await saveLayout(db, user, id, p.data);
       return { intent, ok: true };
     }
     if (intent === "preset") {
-      const p = PresetSchema.safeParse({ name: form.get("name"), draft: JSON.parse(String(form.get("draft") ?? "{}")) });
-      if (!p.success) return { intent, error: p.error.issues[0].message };
+      const draft = jsonField(form, "draft", "{}");
+      if (draft === unreadable) return refuse("The preset's conditions could not be read: they are not JSON.");
+      const p = PresetSchema.safeParse({ name: form.get("name"), draft });
+      if (!p.success) return refuse(p.error.issues[0].message);
       await savePreset(db, user, id, p.data);
       return { intent, ok: true };
     }
     if (intent === "run") {
-      const body = RunCreateSchema.safeParse({ ...JSON.parse(String(form.get("request") ?? "{}")), mechanismId: id, mechanismVersion: Number(form.get("version")) || undefined, name: String(form.get("name") ?? "") || undefined });
-      if (!body.success) return { intent, error: body.error.issues[0].message };
+      const req = jsonField(form, "request", "{}");
+      if (req === unreadable || req === null || typeof req !== "object" || Array.isArray(req)) return refuse("The run request could not be read: it is not a JSON object.");
+      const body = RunCreateSchema.safeParse({ ...req, mechanismId: id, mechanismVersion: Number(form.get("version")) || undefined, name: String(form.get("name") ?? "") || undefined });
+      if (!body.success) return refuse(body.error.issues[0].message);
       const started = await startRun(db, user, body.data);
       if (!started.ok) return { intent, error: ((await started.response.json()) as { error: { message: string } }).error.message };
       return { intent, runId: started.id };

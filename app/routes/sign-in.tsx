@@ -6,6 +6,7 @@ import { assertCsrf } from "~/auth/csrf.server";
 import { getAuthenticator, SignInError } from "~/auth/authenticator.server";
 import { oidcConfig, oidcProviderName } from "~/auth/oidc.server";
 import { safeNext, startSession } from "~/auth/sign-in.server";
+import { signInProblemMessage } from "~/auth/sign-in-problems.server";
 import { sendVerificationLink } from "~/auth/links.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { AuthCard, Field, Notice } from "~/auth/ui/AuthCard";
@@ -33,7 +34,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     next,
     sso: oidcConfig() ? oidcProviderName() : null,
     notice: NOTICES[url.searchParams.get("notice") ?? ""] ?? null,
-    error: url.searchParams.get("error")?.slice(0, 300) ?? null,
+    // Only the sentence of a known code: the address cannot put words of its own on the page.
+    error: signInProblemMessage(url.searchParams.get("error")),
     mailbox: mailboxEnabled(),
   };
 }

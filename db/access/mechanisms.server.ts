@@ -31,7 +31,7 @@ import {
   type FormatError,
 } from "../../solver/exchange-format";
 import { compileStep } from "../../solver/barrier-forms";
-import { getSpeciesMany, type SpeciesRow } from "./species.server";
+import { checkSpeciesInput, getSpeciesMany, type SpeciesRow } from "./species.server";
 import { hydrateVersion, newerApprovedVersions, visibleVersionId, type StepRow } from "./steps.server";
 import { diffMechanisms, type MechanismDiff, type ResolvedEntry, type ResolvedMechanism, type ResolvedSpecies } from "./mechanism-diff";
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
@@ -394,6 +394,12 @@ export async function getMechanismRow(db: Knex, actor: Actor | null, id: number)
   return { ...m, layout: m.layout ? parseJson(m.layout) : null, condition_presets: m.condition_presets ? parseJson(m.condition_presets) : null, illustrative: !!m.illustrative };
 }
 
+/** Whether the mechanism exists and the actor may read it (one query; for links such as a dataset's mechanism). */
+export async function mechanismReadable(db: Knex, actor: Actor | null, id: number): Promise<boolean> {
+  const m = await db("mechanisms").where({ id }).first("owner_id", "visibility", "group_id");
+  return !!m && can(actor, { do: "mechanism.read", object: owned(m) });
+}
+
 export interface MechanismVersionRow {
   id: number;
   number: number;
@@ -638,6 +644,15 @@ export async function importMechanism(
   // Kinetics checks before anything is written.
   const fields: Record<string, string> = {};
   const speciesIds = new Set(doc.species.map((s) => s.id));
+  // Species go into the shared table: the same checks as a species created by hand (formula, its size and charge).
+  doc.species.forEach((sp, i) => {
+    try {
+      checkSpeciesInput({ label: sp.label ?? sp.id, formula: sp.formula, charge: sp.charge, phase: sp.phase, notes: sp.notes });
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      for (const [k, v] of Object.entries(e.fields)) fields[`species[${i}].${k}`] ??= v;
+    }
+  });
   doc.steps.forEach((st, i) => {
     [...st.reactants.map((t, j) => [t, `steps[${i}].reactants[${j}].species`] as const), ...st.products.map((t, j) => [t, `steps[${i}].products[${j}].species`] as const)].forEach(([t, p]) => {
       if (!speciesIds.has(t.species)) fields[p] ??= `Unknown species "${t.species}".`;

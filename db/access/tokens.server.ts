@@ -153,8 +153,9 @@ export async function checkOneTimeToken(db: Knex, purpose: OneTimePurpose, token
 
 /**
  * Uses a link: marks it used in the same statement that checks it is unused and
- * unexpired, so two simultaneous clicks cannot both succeed. Call inside the
- * transaction that makes the change the link allows.
+ * unexpired, so two simultaneous clicks cannot both succeed. Every other unused link of
+ * the same kind for the same person (an older reset mail, say) dies with it. Call inside
+ * the transaction that makes the change the link allows.
  */
 export async function consumeOneTimeToken(db: Knex, purpose: OneTimePurpose, token: string, now = new Date()): Promise<TokenCheck> {
   const check = await checkOneTimeToken(db, purpose, token, now);
@@ -165,5 +166,8 @@ export async function consumeOneTimeToken(db: Knex, purpose: OneTimePurpose, tok
     .where("expires_at", ">", now)
     .update({ used_at: now });
   if (n !== 1) return { ok: false, reason: "used" };
+  if (check.token.userId !== null && purpose !== "invitation") {
+    await db("one_time_tokens").where({ user_id: check.token.userId, purpose }).whereNull("used_at").update({ used_at: now });
+  }
   return check;
 }

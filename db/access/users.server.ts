@@ -117,6 +117,17 @@ export async function setPasswordHash(db: Knex, id: number, hash: string): Promi
     .update({ password_hash: hash, session_epoch: db.raw("session_epoch + 1"), updated_at: db.fn.now(3) });
 }
 
+/**
+ * Disables or re-enables an account. Disabling also raises the session epoch, so the person's
+ * sessions end and stay ended after a later re-enable (they sign in again). False when nothing changed.
+ */
+export async function setDisabled(db: Knex, id: number, disabled: boolean): Promise<boolean> {
+  const change: Record<string, unknown> = { disabled, updated_at: db.fn.now(3) };
+  if (disabled) change.session_epoch = db.raw("session_epoch + 1");
+  const n = await db("users").where({ id, disabled: !disabled }).update(change);
+  return n === 1;
+}
+
 export async function sessionEpoch(db: Knex, id: number): Promise<number> {
   const r = await db("users").where({ id }).first("session_epoch");
   return Number(r?.session_epoch ?? 0);
@@ -126,8 +137,10 @@ export async function markEmailVerified(db: Knex, id: number): Promise<void> {
   await db("users").where({ id }).whereNull("email_verified_at").update({ email_verified_at: db.fn.now(3), updated_at: db.fn.now(3) });
 }
 
-export async function linkOidcSubject(db: Knex, id: number, subject: string): Promise<void> {
-  await db("users").where({ id }).update({ oidc_subject: subject, updated_at: db.fn.now(3) });
+/** Binds a single sign-on subject to an account that has none; false when the account is already bound. */
+export async function linkOidcSubject(db: Knex, id: number, subject: string): Promise<boolean> {
+  const n = await db("users").where({ id }).whereNull("oidc_subject").update({ oidc_subject: subject, updated_at: db.fn.now(3) });
+  return n === 1;
 }
 
 export interface UserListRow {

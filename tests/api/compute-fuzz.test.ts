@@ -25,10 +25,16 @@ fc.configureGlobal({ seed: 20261202 });
 
 type Handler = (r: Request) => Promise<Response>;
 let tried = 0;
+const statuses: Record<number, number> = {};
+afterAll(() => {
+  const fives = Object.entries(statuses).filter(([s]) => Number(s) >= 500).reduce((n, [, c]) => n + c, 0);
+  console.log(`[compute-fuzz] bad inputs tried: ${tried}, 5xx: ${fives}, statuses ${JSON.stringify(statuses)}`);
+});
 
 async function call(handler: Handler, body: string): Promise<{ status: number; json: any; text: string }> {
   tried++;
   const res = await handler(new Request("http://127.0.0.1/api/v1/x", { method: "POST", headers: { "Content-Type": "application/json" }, body }));
+  statuses[res.status] = (statuses[res.status] ?? 0) + 1;
   const text = await res.text();
   return { status: res.status, json: JSON.parse(text), text };
 }

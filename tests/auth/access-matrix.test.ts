@@ -87,8 +87,8 @@ describe("group management controls by role", () => {
     const curator = await view("curator");
     expect(curator.manage).toBe(true);
     const byEmail = (d: any, email: string) => d.members.find((m: any) => m.email === email);
-    // Group admin: only viewer/author moves, and none for a curator or admin.
-    expect(byEmail(curator, "author@saddlebook.test").roleOptions).toEqual(["viewer", "author"]);
+    // Group admin: no site-wide role changes at all.
+    expect(byEmail(curator, "author@saddlebook.test").roleOptions).toEqual(["author"]);
     expect(byEmail(curator, "admin@saddlebook.test").roleOptions).toEqual(["admin"]);
     const admin = await view("admin");
     expect(byEmail(admin, "author@saddlebook.test").roleOptions).toEqual(["viewer", "author", "curator", "admin"]);

@@ -301,18 +301,26 @@ describe("group invitations and roles", () => {
     expect((await t.db("audit_log").where({ action: "invitation.accept" })).length).toBe(1);
   });
 
-  it("a group admin moves a member between viewer and author but cannot make a curator; each change is logged", async () => {
+  it("a group admin cannot change anyone's site-wide role (not even between viewer and author); a site admin can, and it is logged", async () => {
     const curator = await signedIn("curator@saddlebook.test");
     const milo = await t.db("users").where({ email: invitee }).first();
-    const toViewer = await outcome(() => route.group.action(args(post(curator, "/groups/demo-kinetics", { intent: "set-role", userId: String(milo.id), role: "viewer" }), { slug: "demo-kinetics" })));
+    const curatorId = (await t.db("users").where({ email: "curator@saddlebook.test" }).first()).id;
+    for (const [userId, role] of [[milo.id, "viewer"], [milo.id, "curator"], [curatorId, "admin"]] as const) {
+      const r = await outcome(() => route.group.action(args(post(curator, "/groups/demo-kinetics", { intent: "set-role", userId: String(userId), role }), { slug: "demo-kinetics" })));
+      expect(r.status, `${userId} → ${role}`).toBe(403);
+      expect(r.body.error).toMatch(/site admin only/);
+    }
+    expect((await t.db("users").where({ id: milo.id }).first()).role).toBe("author");
+    expect((await t.db("users").where({ id: curatorId }).first()).role).toBe("curator");
+    const shown = await outcome(() => route.group.loader(args(getRequest("/groups/demo-kinetics", { cookie: curator.cookie }), { slug: "demo-kinetics" })));
+    for (const m of shown.body.members) expect(m.roleOptions, m.email).toEqual([m.role]);
+    expect(await t.db("audit_log").where({ action: "role.change", object_id: String(milo.id) })).toHaveLength(0);
+    const admin = await signedIn("admin@saddlebook.test");
+    const toViewer = await outcome(() => route.group.action(args(post(admin, "/groups/demo-kinetics", { intent: "set-role", userId: String(milo.id), role: "viewer" }), { slug: "demo-kinetics" })));
     expect(toViewer.body.ok).toBe("Role changed to viewer.");
-    const toCurator = await outcome(() => route.group.action(args(post(curator, "/groups/demo-kinetics", { intent: "set-role", userId: String(milo.id), role: "curator" }), { slug: "demo-kinetics" })));
-    expect(toCurator.status).toBe(403);
-    expect((await t.db("users").where({ id: milo.id }).first()).role).toBe("viewer");
     const changes = await t.db("audit_log").where({ action: "role.change", object_id: String(milo.id) });
     expect(changes).toHaveLength(1);
     expect(detailOf(changes[0])).toMatchObject({ role: { from: "author", to: "viewer" } });
-    expect(changes[0].user_id).toBe((await t.db("users").where({ email: "curator@saddlebook.test" }).first()).id);
   });
 
   it("the last group admin cannot be removed; members can", async () => {
@@ -343,5 +351,69 @@ describe("group invitations and roles", () => {
     expect(detailOf(row)).toEqual({ role: { from: "viewer", to: "author" } });
     const self = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { userId: String(row.user_id), role: "viewer" }))));
     expect(self.status).toBe(409);
+  });
+});
+
+describe("several reset links", () => {
+  it("using the newer link makes the older one useless, and the other way round", async () => {
+    const email = "curator@saddlebook.test";
+    const v = await visitor();
+    const tokens: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      await outcome(() => route.forgot.action(args(post(v, "/forgot-password", { email }))));
+      tokens.push(new URL("http://x" + linkIn(lastMailTo(email).text, "/reset-password")).searchParams.get("token")!);
+    }
+    expect(tokens[0]).not.toBe(tokens[1]);
+    const newer = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token: tokens[1]!, password: "newer-link-pass-1", confirm: "newer-link-pass-1" }))));
+    expect(newer.status).toBe(302);
+    const hash = (await t.db("users").where({ email }).first()).password_hash;
+    const shown = await outcome(() => route.reset.loader(args(getRequest(`/reset-password?token=${tokens[0]}`))));
+    expect(shown.body.problem).toMatch(/already been used/);
+    const older = await outcome(() => route.reset.action(args(post(v, "/reset-password", { token: tokens[0]!, password: "older-link-pass-2", confirm: "older-link-pass-2" }))));
+    expect(older.status).toBe(410);
+    expect((await t.db("users").where({ email }).first()).password_hash).toBe(hash);
+    await signedIn(email, "newer-link-pass-1");
+  });
+});
+
+describe("disabling an account in the admin page", () => {
+  it("ends the person's sessions and tokens and refuses sign-in; re-enabling lets them sign in again; both logged", async () => {
+    const email = "author@saddlebook.test";
+    const admin = await signedIn("admin@saddlebook.test");
+    const person = await signedIn(email);
+    const target = await t.db("users").where({ email }).first();
+    const { createApiToken } = await import("../../db/access/tokens.server");
+    const { token } = await createApiToken(t.db, target.id, "disable test");
+    const asPerson = () => outcome(() => route.me.loader(args(getRequest("/api/v1/me", { cookie: person.cookie }))));
+    const asToken = () => outcome(() => route.me.loader(args(getRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }))));
+    expect((await asPerson()).status).toBe(200);
+
+    const forged = await outcome(() => route.admin.action(args(formRequest("/admin/users", { csrf: "forged", intent: "disable", userId: String(target.id) }, { cookie: admin.cookie }))));
+    expect(forged.status).toBe(403);
+    const notAdmin = await outcome(() => route.admin.action(args(post(person, "/admin/users", { intent: "disable", userId: String(target.id) }))));
+    expect(notAdmin.status).toBe(403);
+    expect((await t.db("users").where({ id: target.id }).first()).disabled).toBeFalsy();
+
+    const off = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "disable", userId: String(target.id) }))));
+    expect(off.body.ok).toMatch(/is disabled/);
+    expect((await asPerson()).status).toBe(401);
+    expect((await asToken()).status).toBe(401);
+    const v = await visitor();
+    const refused = await outcome(() => route.signIn.action(args(formRequest("/sign-in", { csrf: v.csrf, email, password: DEMO_PASSWORD }, { cookie: v.cookie, ip: "192.0.2.81" }))));
+    expect(refused.status).toBe(400);
+    expect(refused.body.error).toMatch(/disabled/);
+    const page = await outcome(() => route.admin.loader(args(getRequest("/admin/users", { cookie: admin.cookie }))));
+    expect(page.body.users.find((u: { email: string }) => u.email === email).disabled).toBe(true);
+
+    const on = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "enable", userId: String(target.id) }))));
+    expect(on.body.ok).toMatch(/enabled again/);
+    expect((await asToken()).status).toBe(200);
+    expect((await asPerson()).status).toBe(401); // the old session stays ended
+    await signedIn(email);
+
+    const self = await outcome(() => route.admin.action(args(post(admin, "/admin/users", { intent: "disable", userId: String(page.body.me) }))));
+    expect(self.status).toBe(409);
+    expect((await t.db("audit_log").where({ action: "user.disable", object_id: String(target.id) })).length).toBe(1);
+    expect((await t.db("audit_log").where({ action: "user.enable", object_id: String(target.id) })).length).toBe(1);
   });
 });

@@ -65,4 +65,24 @@ describe("single sign-on users", () => {
     expect(detailOf(failure)).toMatchObject({ method: "oidc", reason: "disabled" });
     expect(failure.ip).toBe("192.0.2.8");
   });
+
+  it("never binds a new subject to an account already bound to another, and signs nobody in", async () => {
+    // The curator's account was bound to "sub-curator" above; another identity at the provider now claims the address.
+    const before = await t.db("users").where({ email: "curator@saddlebook.test" }).first();
+    expect(before.oidc_subject).toBe("sub-curator");
+    const err = await userFromIdClaims(t.db, { sub: "sub-impostor", email: "curator@saddlebook.test", emailVerified: true, name: "Not Corin" }, "192.0.2.9").catch((e) => e);
+    expect(err).toBeInstanceOf(SignInError);
+    expect(err.message).toMatch(/linked to a different single sign-on identity/);
+    const after = await t.db("users").where({ email: "curator@saddlebook.test" }).first();
+    expect(after.oidc_subject).toBe("sub-curator");
+    expect(await t.db("users").where({ oidc_subject: "sub-impostor" })).toHaveLength(0);
+    const failure = await t.db("audit_log").where({ action: "sign-in.failure", user_id: after.id }).orderBy("id", "desc").first();
+    expect(detailOf(failure)).toMatchObject({ method: "oidc", reason: "other-subject" });
+    // The bound identity still signs in.
+    expect((await userFromIdClaims(t.db, { sub: "sub-curator", email: "curator@saddlebook.test", emailVerified: true, name: "Corin Aldane" }, "192.0.2.9")).userId).toBe(after.id);
+  });
+
+  it("refuses an identity without a subject", async () => {
+    await expect(userFromIdClaims(t.db, { sub: "", email: "author@saddlebook.test", emailVerified: true, name: "Anouk Brandt" }, "192.0.2.10")).rejects.toThrow(/did not name the person/);
+  });
 });

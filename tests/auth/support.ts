@@ -70,3 +70,21 @@ export function getRequest(path: string, opts: { cookie?: string; ip?: string; h
 export function args(request: Request, params: Record<string, string> = {}): any {
   return { request, params, context: {} };
 }
+
+/** A session cookie for a demo identity, signed in through the sign-in page as a browser would. */
+export async function demoSessionCookie(email: string, ip = "192.0.2.99"): Promise<string> {
+  const root = await import("../../app/root");
+  const signIn = await import("../../app/routes/sign-in");
+  const { DEMO_PASSWORD } = await import("../../db/seeds/demo-identities");
+  const v = await outcome(() => root.loader(args(getRequest("/sign-in"))));
+  const r = await outcome(() => signIn.action(args(formRequest("/sign-in", { csrf: v.body.csrf, email, password: DEMO_PASSWORD, next: "/" }, { cookie: cookieFrom(v), ip }))));
+  if (r.status !== 302) throw new Error(`Signing in ${email} answered ${r.status}: ${JSON.stringify(r.body).slice(0, 200)}`);
+  return cookieFrom(r);
+}
+
+/** Closes the app's database connection and drops the test database. */
+export async function closeAuthDatabase(t: TestDatabase | undefined): Promise<void> {
+  const { getDb } = await import("../../db/client.server");
+  await getDb().destroy();
+  await t?.drop();
+}

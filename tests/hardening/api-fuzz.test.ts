@@ -144,7 +144,8 @@ beforeAll(async () => {
 afterAll(async () => {
   const names = Object.keys(tried);
   const total = names.reduce((s, n) => s + tried[n]!, 0);
-  console.log(`[api-fuzz] bad inputs tried: ${total}`);
+  const fives = Object.values(outcomes).reduce((n, o) => n + Object.entries(o).filter(([s]) => Number(s) >= 500).reduce((m, [, c]) => m + c, 0), 0);
+  console.log(`[api-fuzz] bad inputs tried: ${total}, 5xx: ${fives}`);
   for (const n of names) console.log(`[api-fuzz]   ${n}: ${tried[n]} (statuses ${JSON.stringify(outcomes[n])})`);
   await t?.drop();
 });

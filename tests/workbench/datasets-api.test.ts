@@ -80,4 +80,24 @@ describe("/api/v1/datasets", () => {
     expect(r.json.error.fields["line 4"]).toMatch(/"x" in column "A" is not a number/);
     expect(Number((await t.db("datasets").count({ n: "*" }).first())!.n)).toBe(before);
   });
+
+  it("links a dataset only to a mechanism the caller may read: someone else's private one and a missing one are 404", async () => {
+    const { createMechanism } = await import("../../db/access/mechanisms.server");
+    const [otherId] = await t.db("users").insert({ email: "other-data@example.test", name: "Other author", role: "author" });
+    const other = { id: Number(otherId), role: "author" as const, groupIds: [], adminGroupIds: [] };
+    const hidden = await createMechanism(t.db, other, { name: "Private to the other author", visibility: "private", steps: [] });
+    const shared = await createMechanism(t.db, other, { name: "Public mechanism", visibility: "public", steps: [] });
+    const body = { name: "linked", temperature: { value: 300, unit: "K" }, timeUnit: "s", concentrationUnit: "mol/L", csv: "t,A\n0,1\n10,0.5\n", mapping: { time: "t", species: { A: "A" } } };
+    const before = Number((await t.db("datasets").count({ n: "*" }).first())!.n);
+    for (const mechanismId of [hidden.id, 999_999]) {
+      const r = await post({ ...body, mechanismId });
+      expect(r.status).toBe(404);
+      expect(r.json.error.code).toBe("not_found");
+      expect(r.json.error.fields.mechanismId).toMatch(/no mechanism/);
+    }
+    expect(Number((await t.db("datasets").count({ n: "*" }).first())!.n)).toBe(before);
+    const ok = await post({ ...body, mechanismId: shared.id });
+    expect(ok.status).toBe(201);
+    expect(ok.json.dataset.mechanismId).toBe(shared.id);
+  });
 });

@@ -16,6 +16,7 @@ import {
   StandardStateSchema,
   StepSchema,
 } from "../../../solver/exchange-format";
+import { LayoutSchema, SmallJsonObject } from "../workbench/layout-schema";
 
 export const STEP_STATUSES = ["draft", "proposed", "approved", "deprecated"] as const;
 export type StepStatus = (typeof STEP_STATUSES)[number];
@@ -142,8 +143,8 @@ const mechanismFields = {
   groupId: z.int().positive().nullable().optional(),
   species: z.array(MechanismSpeciesInputSchema).max(5000).default([]),
   steps: z.array(MechanismEntryInputSchema).max(20000).default([]),
-  layout: z.record(z.string(), z.unknown()).nullable().optional(),
-  conditionPresets: z.array(z.record(z.string(), z.unknown())).max(100).nullable().optional(),
+  layout: LayoutSchema.nullable().optional(),
+  conditionPresets: z.array(SmallJsonObject).max(100).nullable().optional(),
   message: z.string().trim().max(1000).optional(),
 };
 

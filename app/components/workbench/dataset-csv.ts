@@ -8,6 +8,7 @@
  */
 import Papa from "papaparse";
 import { z } from "zod";
+import { MAX_TEMPERATURE_K } from "../../../solver/units";
 
 export const MAX_CSV_BYTES = 5_000_000;
 export const MAX_DATA_ROWS = 100_000;
@@ -53,6 +54,13 @@ export function parseCsv(text: string): CsvOutcome {
   if (rows.length === 0) return { ok: false, message: "The file has a header but no data rows." };
   if (rows.length > MAX_DATA_ROWS) return { ok: false, message: `The file has more than ${MAX_DATA_ROWS} data rows.` };
   return { ok: true, value: { header, rows, delimiter: res.meta.delimiter } };
+}
+
+/** Why a dataset's temperature (K) cannot be stored, or null: above 0 K and at most MAX_TEMPERATURE_K. */
+export function datasetTemperatureProblem(TK: number): { message: string; field: string } | null {
+  if (!(TK > 0)) return { message: "The temperature must be above absolute zero.", field: "must be above 0 K" };
+  if (TK > MAX_TEMPERATURE_K) return { message: `The temperature must be at most ${MAX_TEMPERATURE_K} K.`, field: `must be at most ${MAX_TEMPERATURE_K} K` };
+  return null;
 }
 
 export const DatasetMetaSchema = z.object({
