@@ -23,6 +23,7 @@ import { AppShell } from "./components/AppShell";
 import { getOptionalUser } from "./auth/current-user.server";
 import { ensureCsrfToken } from "./auth/csrf.server";
 import { can } from "./auth/policy.server";
+import { mailboxEnabled } from "./mail/mailbox.server";
 
 export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, apiOriginMiddleware, apiBodyTypeMiddleware, pageFormMiddleware, requestScopeMiddleware];
 
@@ -31,8 +32,8 @@ export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getOptionalUser(request);
   const { token: csrf, setCookie } = await ensureCsrfToken(request);
-  const mailbox = process.env.DEV_MAILBOX === "1" || (process.env.NODE_ENV === "development" && !!process.env.MAIL_CATCHER_DIR);
-  const shellUser = user ? { id: user.id, email: user.email, name: user.name, role: user.role, admin: can(user, { do: "user.manage" }), mailbox } : null;
+  const admin = !!user && can(user, { do: "user.manage" });
+  const shellUser = user ? { id: user.id, email: user.email, name: user.name, role: user.role, admin, mailbox: admin && mailboxEnabled() } : null;
   return data({ user: shellUser, csrf }, setCookie ? { headers: { "Set-Cookie": setCookie } } : undefined);
 }
 

@@ -205,7 +205,7 @@ export async function runLibraryBench(): Promise<BenchCase[]> {
     const port = await freePort();
     const appUrl = `http://127.0.0.1:${port}`;
     const secret = randomBytes(32).toString("hex");
-    const services = await startDevServices({ appUrl, databaseUrl: url });
+    const services = await startDevServices({ appUrl, databaseUrl: url, standins: true });
     stopServices = services.stop;
     const app = await startAppServer({ port, quiet: true, env: { ...services.env, DATABASE_URL: url, SESSION_SECRET: secret, APP_URL: appUrl } });
     stopApp = app.stop;

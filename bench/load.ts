@@ -124,7 +124,7 @@ async function main() {
     if (!buildIsCurrent() && !buildApp()) throw new Error("build failed");
     const port = await freePort();
     const appUrl = `http://127.0.0.1:${port}`;
-    const services = await startDevServices({ appUrl, databaseUrl: url });
+    const services = await startDevServices({ appUrl, databaseUrl: url, standins: true });
     stopServices = services.stop;
     const app = await startAppServer({
       port,

@@ -4,6 +4,11 @@
  * (scripts/fake-smtp.ts). Each returns the environment the app needs to reach it. With
  * the real services configured (OIDC_ISSUER / SMTP_URL in the environment) that fake
  * is not started.
+ *
+ * The stand-ins a person can reach through the app (the sign-on provider, which lets anyone
+ * pick any identity, and the mailbox page) run only when `standins` is true: always in
+ * development and tests, in the production server only when DEV_STANDINS=1 says so
+ * (standInsWanted). Without them the SMTP catcher still keeps mail on disk, unread by the app.
  */
 import { resolve } from "node:path";
 import { rmSync } from "node:fs";
@@ -20,14 +25,22 @@ export interface DevServices {
   stop(): Promise<void>;
 }
 
-export async function startDevServices(opts: { log?: (line: string) => void; appUrl: string; databaseUrl: string }): Promise<DevServices> {
-  const env: Record<string, string> = {};
+/**
+ * Whether the stand-ins reachable through the app run: in development unless DEV_STANDINS=0,
+ * in the production server only with DEV_STANDINS=1.
+ */
+export function standInsWanted(dev: boolean, setting: string | undefined): boolean {
+  return dev ? setting !== "0" : setting === "1";
+}
+
+export async function startDevServices(opts: { log?: (line: string) => void; appUrl: string; databaseUrl: string; standins: boolean }): Promise<DevServices> {
+  const env: Record<string, string> = { DEV_STANDINS: opts.standins ? "1" : "0" };
   const notes: string[] = [];
   const stops: Array<() => Promise<void>> = [];
   // Test runs (databases named saddlebook_t_…) get a mail folder of their own, removed afterwards.
   const throwaway = /saddlebook_t_/.test(opts.databaseUrl);
   try {
-    if (!process.env.OIDC_ISSUER) {
+    if (!process.env.OIDC_ISSUER && opts.standins) {
       const oidc = await startFakeOidc({ port: await freePort() });
       stops.push(oidc.stop);
       Object.assign(env, {
@@ -37,8 +50,10 @@ export async function startDevServices(opts: { log?: (line: string) => void; app
         OIDC_PROVIDER_NAME: "the local sign-in provider",
       });
       notes.push(`Single sign-on: local provider at ${oidc.issuer} (choose any of ${FAKE_IDENTITIES.length} identities).`);
-    } else {
+    } else if (process.env.OIDC_ISSUER) {
       notes.push(`Single sign-on: ${process.env.OIDC_ISSUER}`);
+    } else {
+      notes.push("Single sign-on: off (no OIDC_ISSUER; the local stand-in provider runs only with DEV_STANDINS=1).");
     }
     if (!process.env.SMTP_URL) {
       const port = await freePort();
@@ -49,8 +64,12 @@ export async function startDevServices(opts: { log?: (line: string) => void; app
         await smtp.stop();
         if (throwaway) rmSync(dir, { recursive: true, force: true });
       });
-      Object.assign(env, { SMTP_URL: `smtp://127.0.0.1:${port}`, MAIL_CATCHER_DIR: dir, DEV_MAILBOX: "1" });
-      notes.push(`Mail: caught locally (nothing is delivered); read it at ${opts.appUrl}/dev/mailbox`);
+      Object.assign(env, { SMTP_URL: `smtp://127.0.0.1:${port}`, MAIL_CATCHER_DIR: dir });
+      notes.push(
+        opts.standins
+          ? `Mail: caught locally (nothing is delivered); an admin reads it at ${opts.appUrl}/dev/mailbox`
+          : `Mail: no SMTP_URL, so nothing is delivered; messages are kept in ${dir} (DEV_STANDINS=1 lets an admin read them in the app).`,
+      );
     }
   } catch (e) {
     for (const s of stops.reverse()) await s().catch(() => {});

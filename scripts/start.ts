@@ -12,7 +12,7 @@ import { ensureDatabase, type DatabaseHandle } from "./mariadb";
 import { portFree } from "./ports";
 import { buildApp, buildIsCurrent } from "./build-state";
 import { startAppServer, type AppServer } from "./app-server";
-import { startDevServices, type DevServices } from "./dev-services";
+import { standInsWanted, startDevServices, type DevServices } from "./dev-services";
 import { sessionSecret } from "./session-secret";
 import { knexConfigFromUrl } from "../db/config";
 import { migrateLatest } from "../db/migrate";
@@ -70,7 +70,12 @@ async function main(): Promise<void> {
   }
 
   const appUrl = `http://127.0.0.1:${port}`;
-  services = await startDevServices({ log, appUrl, databaseUrl: database.url });
+  const setting = process.env.DEV_STANDINS;
+  if (setting !== undefined && setting !== "" && setting !== "0" && setting !== "1") {
+    throw new ConfigProblem(`DEV_STANDINS must be 1 (local stand-ins on) or 0 (off), got "${setting}".`);
+  }
+  const standins = standInsWanted(dev, setting);
+  services = await startDevServices({ log, appUrl, databaseUrl: database.url, standins });
   app = await startAppServer({
     port,
     dev,
@@ -93,6 +98,11 @@ async function main(): Promise<void> {
   log(`Demo sign-in (illustrative data), password "${DEMO_PASSWORD}":`);
   for (const u of DEMO_USERS) log(`  ${u.role.padEnd(8)} ${u.email}`);
   for (const n of services.notes) log(n);
+  log(
+    standins
+      ? `Local stand-ins ON${dev ? "" : " (DEV_STANDINS=1)"}: the stand-in sign-on provider lets anyone pick any identity and an admin can read caught mail at /dev/mailbox. For development only; never on a server others can reach.`
+      : `Local stand-ins off${dev ? " (DEV_STANDINS=0)" : " (production server)"}: no stand-in sign-on, no mailbox page. DEV_STANDINS=1 turns them on for development use.`,
+  );
   log("Press Ctrl-C to stop.");
 }
 

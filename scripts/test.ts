@@ -92,7 +92,8 @@ async function main(): Promise<number> {
   if (!buildApp(log)) return 1;
   const port = await freePort();
   const appUrl = `http://127.0.0.1:${port}`;
-  services = await startDevServices({ log, appUrl, databaseUrl: e2eUrl });
+  // The tests sign in through the stand-in provider and read caught mail: stand-ins on, as the setting allows.
+  services = await startDevServices({ log, appUrl, databaseUrl: e2eUrl, standins: true });
   app = await startAppServer({
     port,
     quiet: true,

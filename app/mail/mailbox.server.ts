@@ -1,7 +1,8 @@
 /**
  * The development mailbox: reads the messages the local catcher stored as JSON in
- * MAIL_CATCHER_DIR. Available only when DEV_MAILBOX=1 (set by `npm start` and
- * `npm test` when they run the catcher) or in development mode; 404 otherwise.
+ * MAIL_CATCHER_DIR. Available only while the local stand-ins run (DEV_STANDINS=1: always in
+ * development and tests, in the production server only when the setting says so), and then
+ * only to an admin (the route checks); 404 otherwise.
  */
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
@@ -17,8 +18,7 @@ export interface MailboxMessage {
 }
 
 export function mailboxEnabled(): boolean {
-  if (process.env.DEV_MAILBOX === "1") return true;
-  return process.env.NODE_ENV === "development" && !!process.env.MAIL_CATCHER_DIR;
+  return process.env.DEV_STANDINS === "1" && !!process.env.MAIL_CATCHER_DIR;
 }
 
 export function listMailbox(limit = 100): MailboxMessage[] {

@@ -1,10 +1,13 @@
 /**
  * The development mailbox: every message the local catcher received, newest first, with
- * links clickable. Answers 404 unless the catcher runs (DEV_MAILBOX=1) or in development.
+ * links clickable. Answers 404 unless the local stand-ins run (DEV_STANDINS=1) and the
+ * signed-in person is an admin: mail holds sign-in and reset links.
  */
 import { data, Link } from "react-router";
 import type { Route } from "./+types/dev.mailbox";
 import { listMailbox, mailboxEnabled } from "~/mail/mailbox.server";
+import { getOptionalUser } from "~/auth/current-user.server";
+import { can } from "~/auth/policy.server";
 
 export function meta(): Route.MetaDescriptors {
   return [{ title: "Mailbox (development) · Saddlebook" }];
@@ -12,6 +15,9 @@ export function meta(): Route.MetaDescriptors {
 
 export async function loader({ request }: Route.LoaderArgs) {
   if (!mailboxEnabled()) throw data("Not found", { status: 404 });
+  const user = await getOptionalUser(request);
+  // The same answer for the signed-out and for non-admins: the page's existence is not told.
+  if (!user || !can(user, { do: "user.manage" })) throw data("Not found", { status: 404 });
   const to = new URL(request.url).searchParams.get("to")?.toLowerCase() ?? "";
   const messages = listMailbox().filter((m) => !to || m.to.some((t) => t.toLowerCase() === to));
   return { messages, to };
@@ -41,7 +47,7 @@ export default function Mailbox({ loaderData }: Route.ComponentProps) {
       <div>
         <h1 className="text-2xl font-semibold tracking-tight">Mailbox</h1>
         <p className="text-sm text-ink-600">
-          Development and test only: mail the app sends is caught locally and shown here; nothing is delivered.
+          Local stand-in, for admins: mail the app sends is caught locally and shown here; nothing is delivered.
           {loaderData.to && (
             <>
               {" "}

@@ -77,13 +77,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
     <AuthCard title="Sign in to Saddlebook" lead="Your group's steps, mechanisms and runs.">
       {loaderData.notice && <Notice tone="ok">{loaderData.notice}</Notice>}
       {loaderData.mailbox && (
-        <p className="mb-3 text-xs text-ink-500">
-          Development: mail is caught locally; read it in the{" "}
-          <Link className="text-copper-700 hover:underline" to="/dev/mailbox">
-            mailbox
-          </Link>
-          .
-        </p>
+        <p className="mb-3 text-xs text-ink-500">Local stand-in: mail is caught on this machine, not delivered; an admin reads it in the mailbox.</p>
       )}
       {loaderData.error && <Notice tone="error">{loaderData.error}</Notice>}
       {loaderData.sso && (

@@ -107,20 +107,25 @@ describe("group management controls by role", () => {
 });
 
 describe("development mailbox", () => {
-  it("is 404 unless the local mail catcher runs", async () => {
+  // Mail holds sign-in and reset links: whoever reads it can take the account. The page is
+  // 404 unless the local stand-ins run, and then to everyone but an admin.
+  it("is 404 unless the stand-ins run, and then 404 to the signed-out and to every role but admin", async () => {
     const mod = await import("../../app/routes/dev.mailbox");
     const saved = { ...process.env };
+    const open = (who: Who) => outcome(() => mod.loader(args(getRequest("/dev/mailbox", who === "anonymous" ? {} : { cookie: cookies[who] }))));
     try {
-      delete process.env.DEV_MAILBOX;
-      delete process.env.MAIL_CATCHER_DIR;
-      const r = await outcome(() => mod.loader(args(getRequest("/dev/mailbox"))));
-      expect(r.status).toBe(404);
-      process.env.DEV_MAILBOX = "1";
-      expect((await outcome(() => mod.loader(args(getRequest("/dev/mailbox"))))).status).toBe(200);
+      process.env.MAIL_CATCHER_DIR = "/nonexistent-mail-dir";
+      delete process.env.DEV_STANDINS;
+      for (const who of WHO) expect((await open(who)).status, who).toBe(404);
+      process.env.DEV_STANDINS = "0";
+      expect((await open("admin")).status).toBe(404);
+      process.env.DEV_STANDINS = "1";
+      for (const who of WHO) expect((await open(who)).status, who).toBe(who === "admin" ? 200 : 404);
     } finally {
-      process.env.DEV_MAILBOX = saved.DEV_MAILBOX;
-      if (saved.DEV_MAILBOX === undefined) delete process.env.DEV_MAILBOX;
-      if (saved.MAIL_CATCHER_DIR) process.env.MAIL_CATCHER_DIR = saved.MAIL_CATCHER_DIR;
+      for (const k of ["DEV_STANDINS", "MAIL_CATCHER_DIR"]) {
+        if (saved[k] === undefined) delete process.env[k];
+        else process.env[k] = saved[k];
+      }
     }
   });
 });

@@ -13,7 +13,7 @@ const saved = { ...process.env };
 beforeAll(async () => {
   delete process.env.OIDC_ISSUER;
   delete process.env.SMTP_URL;
-  s = await startDevServices({ appUrl: "http://127.0.0.1:3999", databaseUrl: "mysql://x@127.0.0.1/saddlebook_t_devservices" });
+  s = await startDevServices({ appUrl: "http://127.0.0.1:3999", databaseUrl: "mysql://x@127.0.0.1/saddlebook_t_devservices", standins: true });
   Object.assign(process.env, s.env);
 });
 afterAll(async () => {
@@ -91,5 +91,30 @@ describe("local OpenID provider", () => {
     const other = await idTokenFor("viewer@saddlebook.test", "some-other-app");
     await expect(verifyIdToken(cfg, other)).rejects.toThrow(/another application/);
     await expect(verifyIdToken(cfg, "not.a.jwt")).rejects.toBeInstanceOf(Error);
+  });
+});
+
+describe("stand-ins in the production server", () => {
+  it("are on in development unless DEV_STANDINS=0, and in production only with DEV_STANDINS=1", async () => {
+    const { standInsWanted } = await import("../../scripts/dev-services");
+    expect([standInsWanted(true, undefined), standInsWanted(true, "1"), standInsWanted(true, "0")]).toEqual([true, true, false]);
+    expect([standInsWanted(false, undefined), standInsWanted(false, ""), standInsWanted(false, "yes"), standInsWanted(false, "1")]).toEqual([false, false, false, true]);
+  });
+
+  it("without them, no sign-on stand-in starts and the app is told the mailbox is off", async () => {
+    const saved = { OIDC_ISSUER: process.env.OIDC_ISSUER, SMTP_URL: process.env.SMTP_URL };
+    delete process.env.OIDC_ISSUER;
+    delete process.env.SMTP_URL;
+    const off = await startDevServices({ appUrl: "http://127.0.0.1:3998", databaseUrl: "mysql://x@127.0.0.1/saddlebook_t_devservices_off", standins: false });
+    try {
+      expect(off.env.OIDC_ISSUER).toBeUndefined();
+      expect(off.env.DEV_STANDINS).toBe("0");
+      // Mail is still caught on disk (nothing is lost), but no page shows it.
+      expect(off.env.MAIL_CATCHER_DIR).toBeTruthy();
+      expect(off.notes.join("\n")).toMatch(/Single sign-on: off/);
+    } finally {
+      await off.stop();
+      for (const [k, v] of Object.entries(saved)) if (v !== undefined) process.env[k] = v;
+    }
   });
 });
