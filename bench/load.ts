@@ -4,7 +4,8 @@
  * API, the library page, a mechanism page, the rates API and the simulate API, each at 50
  * concurrent connections for a bounded time (default 10 s each). Then a memory run: all five
  * requests in turn on 50 connections for `memorySeconds` (default 60), sampling the resident
- * memory of the server's processes every 5 s.
+ * memory of the server's processes every 5 s. Between the two, a heavy-rates case: large rates
+ * requests on 10 connections beside library-page loads on 40, to show the pages stay responsive.
  * Prints requests/s, latency percentiles (p95 from every response time), errors, the server's
  * CPU time per request (all its processes, from /proc) and memory.
  * Targets (issue "Hardening"): p95 < 100 ms for pages and search, no errors, memory steady.
@@ -212,6 +213,37 @@ async function main() {
     const fmt = (r: string[]) => r.map((x, i) => (i === 0 ? x.padEnd(w[i]!) : x.padStart(w[i]!))).join("  ");
     console.log("\n" + [fmt(head), w.map((n) => "-".repeat(n)).join("  "), ...rows.map(fmt)].join("\n"));
     console.log(`(server: ${process.env.WEB_CONCURRENCY ?? Math.min(4, availableParallelism())} worker processes on ${availableParallelism()} cores, shared with the load generator; RSS: all server processes)`);
+
+    {
+      // Heavy rates beside pages: 10 connections ask the rates API for a large answer (20 steps ×
+      // 300 temperatures, several MB, computed in the compute threads) while 40 load the library
+      // page; the pages' latency is what counts.
+      const heavyBody = JSON.stringify({
+        steps: Array.from({ length: 20 }, (_, i) => ({
+          id: `h${i}`,
+          reactants: [{ species: "A", coef: 1 }],
+          products: [{ species: "B", coef: 1 }],
+          reversible: false,
+          barrier: { form: "dG", dG: 80 + i, unit: "kJ/mol", T: 298.15, standardState: "1M" },
+        })),
+        temperatures: { values: Array.from({ length: 300 }, (_, j) => 250 + j * 0.5), unit: "K" },
+      });
+      const page = cases.find((c) => c.kind === "page")!;
+      const [heavy, pages] = await Promise.all([
+        hammer(appUrl, { connections: 10, duration: seconds, requests: [{ path: "/api/v1/rates", method: "POST", headers: bearer, body: heavyBody }] }),
+        hammer(appUrl, { connections: CONNECTIONS - 10, duration: seconds, requests: [{ path: page.opts.path, method: "GET", headers: page.opts.headers }] }),
+      ]);
+      const line = {
+        case: `heavy rates (10 conn., 6000 k per request) beside ${page.name} (40 conn.)`,
+        seconds,
+        heavyRates: { requestsPerSecond: Math.round(heavy.r.requests.average), p95: heavy.p95, errors: heavy.r.errors + heavy.r.timeouts, non2xx: heavy.r.non2xx },
+        pages: { requestsPerSecond: Math.round(pages.r.requests.average), p50: pages.p50, p95: pages.p95, p99: pages.p99, errors: pages.r.errors + pages.r.timeouts, non2xx: pages.r.non2xx },
+      };
+      console.log(JSON.stringify(line));
+      console.log(
+        `\nheavy rates beside pages: rates ${line.heavyRates.requestsPerSecond} req/s (p95 ${heavy.p95} ms, ${line.heavyRates.errors} errors, ${heavy.r.non2xx} non-2xx); pages ${line.pages.requestsPerSecond} req/s, p50 ${pages.p50} ms, p95 ${pages.p95} ms, ${line.pages.errors} errors`,
+      );
+    }
 
     if (memorySeconds > 0) {
       // Memory: every request kind in turn on 50 connections, RSS sampled every 5 s.

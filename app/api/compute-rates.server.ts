@@ -19,6 +19,22 @@ import { apiError } from "./errors.server";
 
 /** At most this many (step, temperature) pairs per request. */
 export const RATES_MAX_PAIRS = 100_000;
+/** Up to this many (step, temperature) pairs a request is answered on the request thread (well under 1 ms of work). */
+export const RATES_INLINE_PAIRS = 256;
+
+/** How many rate constants a body asks for (steps × temperatures), read before validation; 0 if unclear. */
+export function requestedPairs(value: unknown): number {
+  const v = value as { step?: unknown; steps?: unknown; temperatures?: { values?: unknown } } | null;
+  if (!v || typeof v !== "object") return 0;
+  const steps = Array.isArray(v.steps) ? v.steps.length : v.step !== undefined ? 1 : 0;
+  const temps = Array.isArray(v.temperatures?.values) ? v.temperatures.values.length : 0;
+  return steps * temps;
+}
+
+/** Wall time a rates request may take in its thread, ms (the thread is stopped some time after). */
+export const RATES_MAX_WALL_MS = 10_000;
+/** Largest answer, bytes of JSON (8 MiB): past it the request is refused, never half answered. */
+export const RATES_MAX_RESPONSE_BYTES = 8 * 1024 * 1024;
 
 export const RatesRequestSchema = z
   .strictObject({
@@ -41,11 +57,21 @@ function quantity(value: number, unit: string) {
   return { value, unit };
 }
 
+/** Reads the body and answers it on this thread (tests; the route answers in a compute thread). */
 export async function handleRates(request: Request): Promise<Response> {
   const body = await readJsonBody(request);
   if (!body.ok) return body.response;
-  const parsed = RatesRequestSchema.safeParse(body.value);
-  if (!parsed.success) return invalidBody(zodFields(parsed.error, body.text));
+  return answerRates(body.value, body.text);
+}
+
+/**
+ * Answers a parsed rates body (`text` is its source, for error positions). Runs in a compute
+ * thread (app/compute/api-pool.server.ts). The answer's size is counted as it grows: past
+ * `maxBytes` the request is refused with 413 before more is computed.
+ */
+export function answerRates(value: unknown, text: string, maxBytes = RATES_MAX_RESPONSE_BYTES): Response {
+  const parsed = RatesRequestSchema.safeParse(value);
+  if (!parsed.success) return invalidBody(zodFields(parsed.error, text));
   const req = parsed.data;
   const single = req.step !== undefined;
   const docSteps: DocumentStep[] = single ? [req.step!] : req.steps!;
@@ -70,6 +96,7 @@ export async function handleRates(request: Request): Promise<Response> {
   const s = (v: number) => quantity(v / ENTROPY_FACTORS[sUnit], sUnit);
 
   const results = [];
+  let bytes = 0;
   for (let i = 0; i < docSteps.length; i++) {
     const step = stepToEngine(docSteps[i], stepPath(i));
     if (!step.ok) return engineFailure(step.error, step.error.path);
@@ -112,7 +139,15 @@ export async function handleRates(request: Request): Promise<Response> {
       entry.notes = c.notes;
       at.push(entry);
     }
-    results.push({ id: docSteps[i].id, molecularity, form: docSteps[i].barrier.form, at });
+    const result = { id: docSteps[i].id, molecularity, form: docSteps[i].barrier.form, at };
+    bytes += JSON.stringify(result).length + 1;
+    if (bytes > maxBytes) {
+      const fit = Math.max(1, Math.floor(maxBytes / (bytes / ((i + 1) * temps.length))));
+      return apiError(413, "response_too_large", `The answer would be larger than the ${maxBytes} byte limit (${(maxBytes / 1048576).toFixed(0)} MiB); about ${fit} rate constants (steps × temperatures) fit in one answer: split the request.`, {
+        temperatures: `steps × temperatures: about ${fit} fit in one answer`,
+      });
+    }
+    results.push(result);
   }
   return jsonResponse({ temperatureUnit: "K", energyUnit: eUnit, entropyUnit: sUnit, results });
 }

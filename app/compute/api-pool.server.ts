@@ -1,8 +1,8 @@
 /**
- * Compute threads for the stateless simulate API: each request's simulation runs in a worker
- * thread (piscina), so a long one never holds up the pages and API calls this server process
- * answers meanwhile. A pool of its own, apart from the stored runs' pool (pool.server.ts), so
- * a queue of long stored runs never delays an API answer.
+ * Compute threads for the stateless compute API (simulate and rates): each request's work runs in
+ * a worker thread (piscina), so a long one never holds up the pages and API calls this server
+ * process answers meanwhile. A pool of its own, apart from the stored runs' pool (pool.server.ts),
+ * so a queue of long stored runs never delays an API answer.
  *
  * Threads: computeThreads() (threads.server.ts). At most MAX_QUEUE simulations wait for a
  * thread, and none longer than MAX_WAIT_MS; beyond either the answer is 503 with Retry-After.
@@ -43,14 +43,29 @@ function apiPool(): Piscina {
   return pool;
 }
 
-const busy = (why: string) => apiError(503, "busy", `The simulation service is busy (${why}); try again shortly.`, undefined, { "Retry-After": "5" });
+const busy = (why: string) => apiError(503, "busy", `The compute service is busy (${why}); try again shortly.`, undefined, { "Retry-After": "5" });
+
+/** What the compute API answers in a thread: the task kind and the words for its messages. */
+const TASKS = {
+  simulate: { kind: "simulate-api", work: "simulation", plural: "simulations", advice: "try a shorter end time or looser tolerances" },
+  rates: { kind: "rates-api", work: "rate calculation", plural: "requests", advice: "ask for fewer steps or temperatures" },
+} as const;
 
 /**
  * Answers a simulate API body (already read, and known to parse as JSON) in a compute thread.
  * @param maxWallMs the API's wall-time cap, ms (the engine stops itself there; the thread is
  *   terminated GRACE_MS after that, counted from the start of the simulation, if it has not)
  */
-export async function simulateInThread(text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
+export function simulateInThread(text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
+  return answerInThread(TASKS.simulate, text, signal, maxWallMs);
+}
+
+/** Answers a rates API body (already read, and known to parse as JSON) in a compute thread. */
+export function ratesInThread(text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
+  return answerInThread(TASKS.rates, text, signal, maxWallMs);
+}
+
+async function answerInThread(task: (typeof TASKS)[keyof typeof TASKS], text: string, signal: AbortSignal, maxWallMs: number): Promise<Response> {
   const control = new SharedArrayBuffer(4);
   const flag = new Int32Array(control);
   const progress = new SharedArrayBuffer(16);
@@ -72,17 +87,19 @@ export async function simulateInThread(text: string, signal: AbortSignal, maxWal
   try {
     // Only the text crosses to the thread (parsed again there): copying a parsed value between
     // threads recurses through it, and a deeply nested body would overflow that copy.
-    const out = (await apiPool().run({ kind: "simulate-api", input: { text }, control, progress }, { signal: watchdog.signal })) as WireResponse;
+    const out = (await apiPool().run({ kind: task.kind, input: { text }, control, progress }, { signal: watchdog.signal })) as WireResponse;
     return new Response(out.body, { status: out.status, headers: out.headers });
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
-    if (/queue is at limit/i.test(message)) return busy(`${MAX_QUEUE} simulations waiting`);
+    if (/queue is at limit/i.test(message)) return busy(`${MAX_QUEUE} ${task.plural} waiting`);
     if (why === "wait") return busy(`no compute thread became free within ${MAX_WAIT_MS / 1000} s`);
     if (why === "overrun") {
-      return apiError(503, "simulation_stopped", `The simulation did not stop at its wall-time budget of ${maxWallMs} ms and its thread was stopped; try a shorter end time or looser tolerances.`);
+      const code = task.kind === "simulate-api" ? "simulation_stopped" : "computation_stopped";
+      return apiError(503, code, `The ${task.work} did not stop at its wall-time budget of ${maxWallMs} ms and its thread was stopped; ${task.advice}.`);
     }
-    console.error(`simulate API: the compute thread stopped unexpectedly: ${message}`);
-    return apiError(500, "simulation_failed", "The simulation's compute thread stopped unexpectedly; try again.");
+    console.error(`${task.kind}: the compute thread stopped unexpectedly: ${message}`);
+    const code = task.kind === "simulate-api" ? "simulation_failed" : "computation_failed";
+    return apiError(500, code, `The ${task.work}'s compute thread stopped unexpectedly; try again.`);
   } finally {
     clearInterval(timer);
     signal.removeEventListener("abort", raise);

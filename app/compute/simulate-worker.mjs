@@ -1,13 +1,14 @@
 // Worker thread of the compute pool (piscina). Loads the TypeScript tasks through tsx.
 // A run: progress goes to a shared Float64Array (simulated time reached, s), a shared
 // Int32Array flag asks it to stop (the engine checks it at every step). A fit, and a stateless
-// simulate API request (app/compute/api-pool.server.ts): same flag.
+// simulate or rates API request (app/compute/api-pool.server.ts): same flag.
 import { tsImport } from "tsx/esm/api";
 
 const { runTask } = await tsImport("./run-task.ts", import.meta.url);
 const { fitTask } = await tsImport("./fit-task.ts", import.meta.url);
 
 let simulateApi;
+let ratesApi;
 
 export default async function computeTask({ kind = "run", input, progress, control }) {
   const ctl = new Int32Array(control);
@@ -22,6 +23,13 @@ export default async function computeTask({ kind = "run", input, progress, contr
     new Float64Array(progress)[1] = 1; // started (the caller's watchdog counts from here)
     simulateApi ??= await tsImport("../api/compute-simulate.server.ts", import.meta.url);
     const res = await simulateApi.answerSimulate(JSON.parse(input.text), input.text, signal);
+    return { status: res.status, headers: [...res.headers], body: await res.text() };
+  }
+  if (kind === "rates-api") {
+    // The rates API: a bounded answer (compute-rates.server.ts caps its size), text back.
+    new Float64Array(progress)[1] = 1;
+    ratesApi ??= await tsImport("../api/compute-rates.server.ts", import.meta.url);
+    const res = ratesApi.answerRates(JSON.parse(input.text), input.text);
     return { status: res.status, headers: [...res.headers], body: await res.text() };
   }
   const prog = new Float64Array(progress);
