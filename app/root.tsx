@@ -18,6 +18,7 @@ import { securityHeadersMiddleware } from "./security/headers.server";
 import { apiOriginMiddleware } from "./security/api-origin.server";
 import { apiBodyTypeMiddleware } from "./api/body-type.server";
 import { pageFormMiddleware } from "./security/form-body.server";
+import { apiErrorsMiddleware } from "./api/api-errors.server";
 import { requestScopeMiddleware } from "./auth/request-scope.server";
 import { AppShell } from "./components/AppShell";
 import { getOptionalUser } from "./auth/current-user.server";
@@ -25,7 +26,7 @@ import { ensureCsrfToken } from "./auth/csrf.server";
 import { can } from "./auth/policy.server";
 import { mailboxEnabled } from "./mail/mailbox.server";
 
-export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, apiOriginMiddleware, apiBodyTypeMiddleware, pageFormMiddleware, requestScopeMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, apiErrorsMiddleware, apiOriginMiddleware, apiBodyTypeMiddleware, pageFormMiddleware, requestScopeMiddleware];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

@@ -19,6 +19,10 @@ export interface DatabaseHandle {
   /** Stops the server if this process started it; otherwise does nothing. */
   stop(): Promise<void>;
   startedHere: boolean;
+  /** The embedded server's process is alive (an external server: always true, not watched). */
+  running(): boolean;
+  /** The embedded server's data directory (external: null). */
+  dataDir: string | null;
 }
 
 export interface EmbeddedOptions {
@@ -146,7 +150,7 @@ export async function checkExternal(url: string): Promise<DatabaseHandle> {
         " — check the URL, or unset DATABASE_URL to use the embedded server.",
     );
   }
-  return { url, startedHere: false, stop: async () => {} };
+  return { url, startedHere: false, stop: async () => {}, running: () => true, dataDir: null };
 }
 
 /** Starts (or reuses) the embedded server and makes sure the database and app user exist. */
@@ -257,6 +261,11 @@ export async function ensureEmbedded(opts: EmbeddedOptions): Promise<DatabaseHan
   return {
     url,
     startedHere,
+    dataDir,
+    running: () => {
+      const pid = readPid(dataDir) ?? child?.pid;
+      return !!pid && alive(pid);
+    },
     stop: async () => {
       if (!startedHere) return;
       const pid = readPid(dataDir) ?? child?.pid;

@@ -24,6 +24,7 @@ import { availableParallelism } from "node:os";
 import { join, resolve } from "node:path";
 import knexFactory from "knex";
 import { knexConfigFromUrl } from "../db/config";
+import { databaseUnreachable } from "../db/unreachable";
 import { failRunsOfOtherServers, failRunsOfServerProcess } from "../db/access/runs.server";
 import { SHUTDOWN_GRACE_MS } from "./shutdown-grace.mjs";
 import { SlidingWindows, WINDOW_ANSWER, WINDOW_REQUEST, type WindowAnswer, type WindowRequest } from "../app/security/sliding-window";
@@ -58,7 +59,7 @@ async function supervise() {
       await failRunsOfOtherServers(db, `${bootId}.`);
     } catch (e) {
       const err = e as { code?: string; message: string };
-      const unreachable = ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "PROTOCOL_CONNECTION_LOST", "ER_CON_COUNT_ERROR"].includes(err.code ?? "");
+      const unreachable = databaseUnreachable(e);
       console.error(`Could not check for interrupted runs (${err.code ?? err.message})${unreachable ? "; trying again in 5 s" : ""}.`);
       if (unreachable) setTimeout(() => void sweep(), 5000).unref();
     }

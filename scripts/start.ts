@@ -9,6 +9,7 @@
 import knexFactory from "knex";
 import { ConfigProblem, failWith, loadDotEnv } from "./env";
 import { ensureDatabase, type DatabaseHandle } from "./mariadb";
+import { watchDatabase, type DatabaseWatch } from "./database-watch";
 import { portFree } from "./ports";
 import { buildApp, buildIsCurrent } from "./build-state";
 import { startAppServer, type AppServer } from "./app-server";
@@ -26,11 +27,13 @@ let database: DatabaseHandle | undefined;
 let services: DevServices | undefined;
 let app: AppServer | undefined;
 let stopping = false;
+let dbWatch: DatabaseWatch | undefined;
 
 async function shutdown(code: number): Promise<never> {
   if (!stopping) {
     stopping = true;
     log("\nStopping…");
+    dbWatch?.stop();
     await app?.stop().catch(() => {});
     await services?.stop().catch(() => {});
     await database?.stop().catch(() => {});
@@ -92,6 +95,22 @@ async function main(): Promise<void> {
       void shutdown(1);
     }
   });
+
+  if (database.dataDir) {
+    const dataDir = database.dataDir;
+    dbWatch = watchDatabase({
+      dataDir,
+      running: () => database!.running(),
+      restart: async () => {
+        database = await ensureDatabase("app");
+      },
+      giveUp: (sentence) => {
+        console.error(`\n✖ ${sentence}\n`);
+        void shutdown(1);
+      },
+      log,
+    });
+  }
 
   log("");
   log(`Saddlebook is running at ${app.url}/ ${dev ? "(development server)" : ""}`);

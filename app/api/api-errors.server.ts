@@ -1,0 +1,39 @@
+/**
+ * Root middleware for the REST API: an error a route did not answer itself becomes the API's
+ * JSON error body instead of a plain-text 500. While the database cannot be reached (down,
+ * restarting) the answer is 503 with Retry-After, so scripts know to try again.
+ */
+import type { MiddlewareFunction } from "react-router";
+import { apiError } from "./errors.server";
+import { databaseUnreachable } from "../../db/unreachable";
+import { databaseProblem } from "../../db/client.server";
+
+export const DATABASE_DOWN_MESSAGE = "The database is not answering (it may be restarting); try again shortly.";
+
+/** The JSON answer for an error thrown by an API route. */
+export function apiErrorResponse(e: unknown, path: string): Response {
+  if (databaseUnreachable(e)) return apiError(503, "database_unavailable", DATABASE_DOWN_MESSAGE, undefined, { "Retry-After": "5" });
+  console.error(`API ${path}: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+  return apiError(500, "internal_error", "The server could not answer this request; it has been logged.");
+}
+
+/**
+ * React Router answers an error a resource route threw with a plain-text 500 (after logging it):
+ * such an answer is replaced by the JSON shape, 503 when the database is not answering.
+ */
+export const apiErrorsMiddleware: MiddlewareFunction<Response> = async ({ request }, next) => {
+  const path = new URL(request.url).pathname;
+  if (!path.startsWith("/api/")) return next();
+  let res: Response;
+  try {
+    res = await next();
+  } catch (e) {
+    if (e instanceof Response) throw e;
+    return apiErrorResponse(e, path);
+  }
+  if (res.status !== 500 || /application\/json/.test(res.headers.get("Content-Type") ?? "")) return res;
+  await res.body?.cancel().catch(() => {});
+  const problem = await databaseProblem();
+  if (problem) return apiError(503, "database_unavailable", DATABASE_DOWN_MESSAGE, undefined, { "Retry-After": "5" });
+  return apiError(500, "internal_error", "The server could not answer this request; it has been logged.");
+};
