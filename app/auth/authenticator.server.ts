@@ -18,8 +18,8 @@ import {
   type Role,
 } from "../../db/access/users.server";
 import { clientAddress } from "./client-address.server";
-import { verifyPassword } from "./password.server";
-import { checkSignInAllowed, recordSignInAttempt } from "./rate-limit.server";
+import { PasswordHashingBusy, withHashingTurn, BUSY_MESSAGE, HASHING } from "./password.server";
+import { claimSignInAttempt, recordSignInAttempt, settleSignInAttempt, SignInLockTimeout } from "./rate-limit.server";
 import { OidcStrategy, oidcConfig, oidcNonce, verifyIdToken, type IdClaims } from "./oidc.server";
 
 export interface SignedIn {
@@ -31,8 +31,19 @@ export interface SignedIn {
 export class SignInError extends Error {
   constructor(
     message: string,
-    readonly code: "invalid" | "unverified" | "limited" | "disabled" | "unavailable" | "unconfirmed-email" | "no-subject" | "other-subject" = "invalid",
+    readonly code:
+      | "invalid"
+      | "unverified"
+      | "limited"
+      | "busy"
+      | "disabled"
+      | "unavailable"
+      | "unconfirmed-email"
+      | "no-subject"
+      | "other-subject" = "invalid",
     readonly email?: string,
+    /** For "limited" and "busy": when to come back, in seconds. */
+    readonly retryAfterSeconds?: number,
   ) {
     super(message);
   }
@@ -51,20 +62,43 @@ const credentialsSchema = z.object({
   password: z.string().min(1, "Enter your password.").max(200),
 });
 
-/** Checks e-mail and password (with rate limits, attempt log and audit rows). */
+/**
+ * Checks e-mail and password (with rate limits, attempt log and audit rows). The whole check
+ * holds one hashing turn (app/auth/password.server.ts), so sign-ins in this process never
+ * hold more database connections than there are turns; when the queue for turns is full the
+ * answer is "busy" and nothing is recorded against the account.
+ */
 export async function signInWithPassword(db: Knex, form: FormData, ip: string): Promise<SignedIn> {
   const parsed = credentialsSchema.safeParse({ email: form.get("email") ?? "", password: form.get("password") ?? "" });
   if (!parsed.success) throw new SignInError(parsed.error.issues[0]?.message ?? WRONG_CREDENTIALS);
   const { email, password } = parsed.data;
-  const limit = await checkSignInAllowed(db, email, ip);
-  if (!limit.allowed) {
+  try {
+    return await withHashingTurn((checkPassword) => checkCredentials(db, email, password, ip, checkPassword));
+  } catch (e) {
+    if (e instanceof PasswordHashingBusy || e instanceof SignInLockTimeout) {
+      throw new SignInError(BUSY_MESSAGE, "busy", email, HASHING.retryAfterSeconds);
+    }
+    throw e;
+  }
+}
+
+async function checkCredentials(
+  db: Knex,
+  email: string,
+  password: string,
+  ip: string,
+  checkPassword: (password: string, hash: string | null) => Promise<boolean>,
+): Promise<SignedIn> {
+  // Counted and written as a failure before hashing: parallel guesses cannot pass the limit.
+  const claim = await claimSignInAttempt(db, email, ip);
+  if (!claim.allowed) {
     await audit(db, { userId: null, action: "sign-in.refused", detail: { email, reason: "rate-limit" }, ip });
-    throw new SignInError(limit.message!, "limited", email);
+    throw new SignInError(claim.message!, "limited", email, claim.retryAfterSeconds);
   }
   const user = await findUserByEmail(db, email);
-  const ok = await verifyPassword(password, user?.passwordHash ?? null);
+  const ok = await checkPassword(password, user?.passwordHash ?? null);
   if (!user || !ok) {
-    await recordSignInAttempt(db, { email, ip, success: false });
+    // The claimed attempt stays a failure.
     await audit(db, {
       userId: user?.id ?? null,
       action: "sign-in.failure",
@@ -75,15 +109,15 @@ export async function signInWithPassword(db: Knex, form: FormData, ip: string): 
     });
     throw new SignInError(WRONG_CREDENTIALS, "invalid", email);
   }
-  if (user.disabled) {
-    await audit(db, { userId: user.id, action: "sign-in.failure", objectType: "user", objectId: user.id, detail: { method: "password", reason: "disabled" }, ip });
-    throw new SignInError("This account is disabled; ask an administrator.", "disabled", email);
-  }
-  if (!user.emailVerifiedAt) {
-    await audit(db, { userId: user.id, action: "sign-in.failure", objectType: "user", objectId: user.id, detail: { method: "password", reason: "unverified" }, ip });
+  if (user.disabled || !user.emailVerifiedAt) {
+    // The password was right: only wrong passwords count towards the limit.
+    await settleSignInAttempt(db, claim.attemptId, "forget");
+    const reason = user.disabled ? "disabled" : "unverified";
+    await audit(db, { userId: user.id, action: "sign-in.failure", objectType: "user", objectId: user.id, detail: { method: "password", reason }, ip });
+    if (user.disabled) throw new SignInError("This account is disabled; ask an administrator.", "disabled", email);
     throw new SignInError("Confirm your e-mail address first: open the link we sent you, or ask for a new one below.", "unverified", email);
   }
-  await recordSignInAttempt(db, { email, ip, success: true });
+  await settleSignInAttempt(db, claim.attemptId, "success");
   await audit(db, { userId: user.id, action: "sign-in.success", objectType: "user", objectId: user.id, detail: { method: "password" }, ip });
   return { userId: user.id, method: "password" };
 }

@@ -9,7 +9,7 @@ import type { Route } from "./+types/invitations.accept";
 import { getOptionalUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { clientAddress } from "~/auth/client-address.server";
-import { hashPassword, passwordSchema } from "~/auth/password.server";
+import { hashPassword, passwordSchema, PasswordHashingBusy, unlessBusy } from "~/auth/password.server";
 import { startSession } from "~/auth/sign-in.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { AuthCard, Field, Notice } from "~/auth/ui/AuthCard";
@@ -88,7 +88,8 @@ export async function action({ request }: Route.ActionArgs) {
     for (const i of parsed.error.issues) fields[String(i.path[0])] ??= i.message;
     return data({ error: null, fields, name }, { status: 400 });
   }
-  const hash = await hashPassword(parsed.data.password);
+  const hash = await unlessBusy(hashPassword(parsed.data.password));
+  if (hash instanceof PasswordHashingBusy) return data({ error: null, fields: { password: hash.message } as Record<string, string>, name }, hash.init);
   const result = await db.transaction(async (trx) => {
     const r = await consumeOneTimeToken(trx, "invitation", token);
     if (!r.ok) return { problem: LINK_PROBLEM[r.reason] };

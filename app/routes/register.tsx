@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/register";
 import { assertCsrf } from "~/auth/csrf.server";
 import { getOptionalUser } from "~/auth/current-user.server";
-import { hashPassword, passwordSchema } from "~/auth/password.server";
+import { hashPassword, passwordSchema, PasswordHashingBusy, unlessBusy } from "~/auth/password.server";
 import { defaultRole } from "~/auth/authenticator.server";
 import { sendVerificationLink } from "~/auth/links.server";
 import { clientAddress } from "~/auth/client-address.server";
@@ -50,7 +50,8 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 409 },
     );
   }
-  const hash = await hashPassword(parsed.data.password);
+  const hash = await unlessBusy(hashPassword(parsed.data.password));
+  if (hash instanceof PasswordHashingBusy) return data({ fields: { password: hash.message }, input, error: null }, hash.init);
   try {
     await db.transaction(async (trx) => {
       const id = await createUser(trx, { email: parsed.data.email, name: parsed.data.name, role: defaultRole(), passwordHash: hash });

@@ -3,7 +3,7 @@ import { data, Form, Link, redirect } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/reset-password";
 import { assertCsrf } from "~/auth/csrf.server";
-import { hashPassword, passwordSchema } from "~/auth/password.server";
+import { hashPassword, passwordSchema, PasswordHashingBusy, unlessBusy } from "~/auth/password.server";
 import { clientAddress } from "~/auth/client-address.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { AuthCard, Field, Notice } from "~/auth/ui/AuthCard";
@@ -36,7 +36,9 @@ export async function action({ request }: Route.ActionArgs) {
     for (const i of parsed.error.issues) fields[String(i.path[0])] ??= i.message;
     return data({ fields, problem: null as string | null }, { status: 400 });
   }
-  const hash = await hashPassword(parsed.data.password);
+  const hash = await unlessBusy(hashPassword(parsed.data.password));
+  // The link is not used up: the same form can be sent again in a moment.
+  if (hash instanceof PasswordHashingBusy) return data({ fields: { password: hash.message } as Record<string, string>, problem: null }, hash.init);
   const result = await getDb().transaction(async (trx) => {
     const r = await consumeOneTimeToken(trx, "reset-password", token);
     if (!r.ok || r.token.userId == null) return LINK_PROBLEM[r.ok ? "unknown" : r.reason];

@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/settings";
 import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
-import { hashPassword, passwordSchema, verifyPassword } from "~/auth/password.server";
+import { hashPassword, passwordSchema, PasswordHashingBusy, unlessBusy, verifyPassword } from "~/auth/password.server";
 import { clientAddress } from "~/auth/client-address.server";
 import { renewSession } from "~/auth/sign-in.server";
 import { CsrfInput } from "~/components/CsrfInput";
@@ -53,10 +53,12 @@ export async function action({ request }: Route.ActionArgs) {
       return data({ intent, fields, ok: null }, { status: 400 });
     }
     const record = await findUserById(db, user.id);
-    if (record?.passwordHash && !(await verifyPassword(parsed.data.current, record.passwordHash))) {
-      return data({ intent, fields: { current: "This is not your current password." }, ok: null }, { status: 400 });
-    }
-    await setPasswordHash(db, user.id, await hashPassword(parsed.data.password));
+    const current = record?.passwordHash ? await unlessBusy(verifyPassword(parsed.data.current, record.passwordHash)) : true;
+    if (current instanceof PasswordHashingBusy) return data({ intent, fields: { current: current.message }, ok: null }, current.init);
+    if (!current) return data({ intent, fields: { current: "This is not your current password." }, ok: null }, { status: 400 });
+    const hash = await unlessBusy(hashPassword(parsed.data.password));
+    if (hash instanceof PasswordHashingBusy) return data({ intent, fields: { password: hash.message }, ok: null }, hash.init);
+    await setPasswordHash(db, user.id, hash);
     await audit(db, { userId: user.id, action: "password.change", objectType: "user", objectId: user.id, ip: clientAddress(request) });
     // Other sessions end with the change; this one carries on.
     return data(

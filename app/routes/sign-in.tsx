@@ -63,7 +63,9 @@ export async function action({ request }: Route.ActionArgs) {
     return await startSession(request, result.userId, result.method, next);
   } catch (e) {
     if (e instanceof SignInError) {
-      return data({ error: e.message, email, resent: false, code: e.code }, { status: e.code === "limited" ? 429 : 400 });
+      const status = e.code === "limited" ? 429 : e.code === "busy" ? 503 : 400;
+      const headers: Record<string, string> = e.retryAfterSeconds ? { "Retry-After": String(e.retryAfterSeconds) } : {};
+      return data({ error: e.message, email, resent: false, code: e.code }, { status, headers });
     }
     throw e;
   }
