@@ -15,6 +15,7 @@ import { MechanismEditor } from "~/components/mechanism-editor/MechanismEditor";
 import { sig } from "~/components/library/format";
 import { StatusBadge } from "~/components/library/StatusBadge";
 import { InputError } from "../../db/access/library-errors";
+import { reactionText } from "~/components/names";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.name ?? "Mechanism"} · Saddlebook` }];
@@ -36,7 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     loaderFailure(e);
   }
   const labelOf = new Map(d.resolved.species.map((s) => [s.key, s.label]));
-  const side = (ts: Array<{ species: string; coef: number }>) => ts.map((t) => `${t.coef > 1 ? t.coef + " " : ""}${labelOf.get(t.species) ?? t.species}`).join(" + ");
+  const nameOf = (key: string) => labelOf.get(key) ?? key;
   const steps = d.resolved.steps.map((s) => {
     const r = rateAt(s.doc, T);
     return {
@@ -47,7 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       versionNumber: s.versionNumber ?? null,
       status: s.status ?? null,
       label: s.label,
-      reaction: `${side(s.doc.reactants)} ${s.doc.reversible ? "⇌" : "→"} ${side(s.doc.products)}`,
+      reaction: reactionText(s.doc, nameOf),
       k: r.k,
       kUnit: r.unit,
       doc: s.kind === "local" ? s.doc : null,

@@ -16,6 +16,8 @@ import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
 import { CautionNote } from "~/components/workbench/CautionNote";
 import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rates";
+import { namesOf, type Names } from "~/components/names";
+import { describeBarrier } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
@@ -144,6 +146,7 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
     return K > 0 ? K : null;
   })();
   const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
+  const names = useMemo(() => namesOf(L.doc), [L.doc]);
   const [selected, setSelected] = useState<string | null>(null);
   const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
@@ -241,11 +244,11 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
           {selected && L.editable && L.entries[selected] && (
             <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} />
           )}
-          {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
+          {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} names={names} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
         </div>
         <div className="panel space-y-3">
           <h2 className="font-semibold">Run</h2>
-          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={Object.fromEntries(L.doc.species.map((s) => [s.id, s.label ?? s.id]))} presets={L.presets.map((p) => ({ name: p.name, draft: { ...defaultDraft(L.doc.species.map((s) => s.id)), ...(p.draft as Partial<ConditionsDraft>) } }))} />
+          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={Object.fromEntries(L.doc.species.map((s) => [s.id, names.speciesWithFormula(s.id)]))} presets={L.presets.map((p) => ({ name: p.name, draft: { ...defaultDraft(L.doc.species.map((s) => s.id)), ...(p.draft as Partial<ConditionsDraft>) } }))} />
           <CautionNote heating={heating} concentrated={concentrated} />
           <div className="flex flex-wrap gap-2">
             <button type="button" className="btn-primary" onClick={startRunClick} disabled={!L.canRun || runFetcher.state !== "idle" || !!active}>
@@ -281,12 +284,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
               <div className="h-2 rounded bg-ink-100" role="progressbar" aria-valuenow={Math.round((run.progress / run.tEnd) * 100)}>
                 <div className="h-2 rounded bg-copper-500" style={{ width: `${Math.min(100, (run.progress / run.tEnd) * 100)}%` }} />
               </div>
-              {run.reason && <p className="text-brick-700">{run.reason}</p>}
+              {run.reason && <p className="text-brick-700">{names.text(run.reason)}</p>}
               {run.status === "done" && (
                 <p>
                   {Object.entries(run.analysis?.species ?? {})
                     .filter(([, s]) => s.initial > 0)
-                    .map(([id, s]) => `t½(${id}) ${duration(s.t50)}`)
+                    .map(([id, s]) => `t½(${names.species(id)}) ${duration(s.t50)}`)
                     .join(", ")}{" "}
                   <Link className="font-medium underline" to={`/runs/${run.id}`}>
                     Open the results
@@ -321,9 +324,9 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
             const at = pathway.indexOf(s.id);
             return (
               <label key={s.id} className="inline-flex items-center gap-1">
-                <input type="checkbox" checked={at >= 0} onChange={() => setPathway(at >= 0 ? pathway.filter((x) => x !== s.id) : [...pathway, s.id])} aria-label={`Pathway step ${s.id}`} />
+                <input type="checkbox" checked={at >= 0} onChange={() => setPathway(at >= 0 ? pathway.filter((x) => x !== s.id) : [...pathway, s.id])} aria-label={`Pathway step ${names.step(s.id)}`} />
                 {at >= 0 && <span className="num text-xs text-copper-700">{at + 1}.</span>}
-                {s.label ?? s.id}
+                {names.step(s.id)}
               </label>
             );
           })}
@@ -342,25 +345,36 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function StepPanel({ id, doc, numbers, onClose, mechanismId }: { id: string; doc: Route.ComponentProps["loaderData"]["doc"]; numbers: ReturnType<typeof stepNumbers>; onClose: () => void; mechanismId: number }) {
+function StepPanel({
+  id,
+  doc,
+  names,
+  numbers,
+  onClose,
+  mechanismId,
+}: {
+  id: string;
+  doc: Route.ComponentProps["loaderData"]["doc"];
+  names: Names;
+  numbers: ReturnType<typeof stepNumbers>;
+  onClose: () => void;
+  mechanismId: number;
+}) {
   const st = doc.steps.find((s) => s.id === id);
   const n = numbers.find((x) => x.id === id);
   if (!st || !n) return null;
-  const side = (t: { species: string; coef: number }[]) => t.map((x) => (x.coef > 1 ? `${x.coef} ${x.species}` : x.species)).join(" + ");
   return (
     <aside className="mt-3 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Step details" data-testid="step-panel">
       <div className="flex items-center">
-        <h3 className="font-semibold">{st.label ?? st.id}</h3>
+        <h3 className="font-semibold">{names.step(id)}</h3>
         <button type="button" className="btn-quiet ml-auto py-0" onClick={onClose}>
           Close
         </button>
       </div>
-      <p className="num mt-1">
-        {side(st.reactants)} {st.reversible ? "⇌" : "→"} {side(st.products)}
-      </p>
+      <p className="mt-1">{names.reaction(id)}</p>
       <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
         <dt>barrier</dt>
-        <dd className="num">{JSON.stringify(st.barrier).replace(/[{}"]/g, "").replace(/,/g, ", ")}</dd>
+        <dd className="num">{describeBarrier(st.barrier)}</dd>
         <dt>k_fwd</dt>
         <dd className="num">
           {num(n.kf)} {n.kfUnit}

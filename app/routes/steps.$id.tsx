@@ -14,6 +14,7 @@ import { balanceOf } from "~/components/library/balance";
 import { speciesIdOfKey, type StepStatus } from "~/components/library/step-schema";
 import { StatusBadge } from "~/components/library/StatusBadge";
 import { energyIn, entropyIn, sig, temperatureText, unitLabel } from "~/components/library/format";
+import { barrierRows } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
@@ -203,14 +204,12 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
           <dl className="mt-2 grid grid-cols-2 gap-1 text-sm">
             <dt>Form</dt>
             <dd>{{ dG: "ΔG‡ at T", dHdS: "ΔH‡ and ΔS‡", thermal: "Ea, ΔS‡, Δn‡", arrhenius: "Arrhenius A, Ea", measured: "measured k" }[b.form]}</dd>
-            {Object.entries(b)
-              .filter(([k]) => k !== "form")
-              .map(([k, v]) => (
-                <div key={k} className="contents">
-                  <dt className="font-mono text-xs">{k}</dt>
-                  <dd className="num">{typeof v === "object" ? JSON.stringify(v) : unitLabel(String(v))}</dd>
-                </div>
-              ))}
+            {barrierRows(b).map(([k, v]) => (
+              <div key={k} className="contents">
+                <dt>{k}</dt>
+                <dd className="num">{v}</dd>
+              </div>
+            ))}
             {d.content.kappa !== undefined && (
               <>
                 <dt>κ</dt>

@@ -37,6 +37,7 @@ import { diffMechanisms, type MechanismDiff, type ResolvedEntry, type ResolvedMe
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
 import { audit } from "./audit.server";
 import { retryingTransaction } from "./transactions.server";
+import { reactionText } from "../../app/components/names";
 
 /** Largest import file accepted: 2 MB (2 097 152 bytes). */
 export const IMPORT_LIMIT_BYTES = 2_097_152;
@@ -212,10 +213,7 @@ export async function resolveSnapshot(db: Knex, name: string, snap: Snapshot): P
   }
   const keyOfId = new Map(snap.species.map((s) => [s.speciesId, s.key]));
   const labelOfKey = new Map(snap.species.map((s) => [s.key, s.label]));
-  const reaction = (d: DocumentStep) => {
-    const side = (ts: DocumentStep["reactants"]) => ts.map((t) => `${t.coef === 1 ? "" : t.coef + " "}${labelOfKey.get(t.species) ?? t.species}`).join(" + ");
-    return `${side(d.reactants)} ${d.reversible ? "⇌" : "→"} ${side(d.products)}`;
-  };
+  const reaction = (d: DocumentStep) => reactionText(d, (k) => labelOfKey.get(k) ?? k);
   const species: ResolvedSpecies[] = snap.species.map((s) => ({ key: s.key, speciesId: s.speciesId, label: s.label, formula: s.formula, charge: s.charge, phase: s.phase }));
   const steps: ResolvedEntry[] = snap.steps.map((e) => {
     if (e.kind === "library") {

@@ -16,7 +16,11 @@ import { downloadBlob } from "./svg-export";
 export interface PlotSeries {
   /** Unique key, e.g. "A" or "run12:A". */
   key: string;
+  /** Shown in the legend: the species' name, never its key. */
   label: string;
+  /** The species' id in the mechanism and its formula (for exports' keys). */
+  id?: string;
+  formula?: string;
   /** s */
   times: ArrayLike<number>;
   /** mol/L */

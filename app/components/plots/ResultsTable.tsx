@@ -6,10 +6,15 @@
 import { useMemo, useState } from "react";
 import { flexRender, getCoreRowModel, getPaginationRowModel, useReactTable, type ColumnDef } from "@tanstack/react-table";
 import { downloadBlob } from "./svg-export";
+import { resultsCsv } from "./results-csv";
 
 export interface TableSeries {
   key: string;
+  /** The species' name (never its key in the mechanism). */
   label: string;
+  /** The species' id in the mechanism and its formula, for the CSV's key. */
+  id?: string;
+  formula?: string;
   /** s */
   times: ArrayLike<number>;
   /** mol/L */
@@ -43,21 +48,27 @@ export function mergeRows(series: TableSeries[], temperatures?: { times: ArrayLi
   return [...map.values()].sort((a, b) => a.t - b.t);
 }
 
-export function rowsToCsv(series: TableSeries[], rows: Row[]): string {
-  const esc = (v: string) => (/[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
-  const head = ["time_s", "T_K", ...series.map((s) => esc(`${s.label} (mol/L)`))].join(",");
-  const lines = rows.map((r) => [r.t, r.T, ...r.v].map((x) => (x == null || !Number.isFinite(x) ? "" : String(x))).join(","));
-  return [head, ...lines].join("\n") + "\n";
+/** The table as CSV (results-csv.ts layout: names and units in the header, a key to ids). */
+export function rowsToCsv(series: TableSeries[], rows: Row[], title = "Saddlebook concentration–time values", withTemperature = true): string {
+  return resultsCsv({
+    title,
+    columns: series.map((s) => ({ name: s.label, unit: "mol/L", id: s.id, formula: s.formula })),
+    rows: rows.map((r) => [r.t, r.T, ...r.v]),
+    withTemperature,
+  });
 }
 
 export function ResultsTable({
   series,
   temperatures,
   filename = "saddlebook-results.csv",
+  title,
 }: {
   series: TableSeries[];
   temperatures?: { times: ArrayLike<number>; values: ArrayLike<number> };
   filename?: string;
+  /** First comment line of the CSV, e.g. "Saddlebook run #12: …". */
+  title?: string;
 }) {
   const rows = useMemo(() => mergeRows(series, temperatures), [series, temperatures]);
   const [pageSize, setPageSize] = useState(25);
@@ -85,7 +96,7 @@ export function ResultsTable({
   return (
     <div className="space-y-2" data-testid="results-table">
       <div className="flex flex-wrap items-center gap-2 text-sm">
-        <button type="button" className="btn-quiet py-0.5" onClick={() => downloadBlob(new Blob([rowsToCsv(series, rows)], { type: "text/csv;charset=utf-8" }), filename)}>
+        <button type="button" className="btn-quiet py-0.5" onClick={() => downloadBlob(new Blob([rowsToCsv(series, rows, title, !!temperatures)], { type: "text/csv;charset=utf-8" }), filename)}>
           Download CSV
         </button>
         <span className="text-ink-500">{rows.length} rows</span>

@@ -17,6 +17,7 @@ import { stepNumbers } from "./step-rates";
 import { num } from "./format";
 import { GraphEditFormSchema, firstIssue, type GraphEdit } from "./graph-edit-schema";
 import type { LibrarySearchHit } from "../library/search-hit";
+import { namesOf } from "../names";
 
 export interface EntryInfo {
   kind: "library" | "local";
@@ -189,8 +190,9 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
 
   // Species choices: the mechanism's own, then the registry's (new to the mechanism) as s<id>.
   const inDoc = new Set(doc.species.map((s) => s.id));
+  const names = namesOf(doc);
   const options = [
-    ...doc.species.map((s) => ({ value: s.id, text: s.label ?? s.id })),
+    ...doc.species.map((s) => ({ value: s.id, text: names.speciesWithFormula(s.id) })),
     ...allSpecies.filter((s) => !inDoc.has(`s${s.id}`)).map((s) => ({ value: `s${s.id}`, text: `${s.label}${s.formula ? ` (${s.formula})` : ""} — new to this mechanism` })),
   ];
   const [ls, setLs] = useState({ label: "", r1: "", r2: "", p1: "", p2: "" });
@@ -300,8 +302,8 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
   }, [st, thermo, barrier, reversible, rxn, rxnUnit, rxnT]);
   const valid = draft && StepSchema.safeParse(draft).success ? draft : null;
   if (!st) return null;
-  const side = (t: { species: string; coef: number }[]) => t.map((x) => `${x.coef > 1 ? x.coef + " " : ""}${doc.species.find((s) => s.id === x.species)?.label ?? x.species}`).join(" + ");
-  const name = st.label ?? st.id;
+  const names = namesOf(doc);
+  const name = names.step(id);
   return (
     <aside className="mt-3 space-y-2 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Edit step" data-testid="step-edit-panel">
       <div className="flex items-center">
@@ -311,7 +313,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
         </button>
       </div>
       <p className="num">
-        {side(st.reactants)} {st.reversible ? "⇌" : "→"} {side(st.products)}
+        {names.reaction(id)}
       </p>
       {here && here.kf !== null && (
         <p className="num text-xs text-ink-700">

@@ -10,7 +10,7 @@ export function RateTable({ numbers, onSelect }: { numbers: StepNumbers[]; onSel
   const [sorting, setSorting] = useState<SortingState>([]);
   const columns = useMemo<ColumnDef<StepNumbers>[]>(
     () => [
-      { id: "step", header: "Step", accessorFn: (r) => r.label, cell: (c) => <button type="button" className="text-left underline decoration-ink-200" onClick={() => onSelect?.(c.row.original.id)}>{c.row.original.reversible ? "⇌ " : "→ "}{c.getValue<string>()}</button> },
+      { id: "step", header: "Step", accessorFn: (r) => r.label, cell: (c) => <button type="button" className="text-left underline decoration-ink-200" onClick={() => onSelect?.(c.row.original.id)}>{c.getValue<string>()}{c.row.original.reaction !== c.getValue<string>() && <span className="ml-1 text-xs text-ink-500">{c.row.original.reaction}</span>}</button> },
       { id: "kf", header: "k_fwd", accessorFn: (r) => r.kf, cell: (c) => <span className="num">{num(c.getValue<number | null>())} {c.row.original.kfUnit}</span> },
       { id: "kr", header: "k_rev", accessorFn: (r) => r.kr, cell: (c) => <span className="num">{c.row.original.kr === null ? (c.row.original.reversible ? "needs ΔG°rxn" : "—") : `${num(c.row.original.kr)} ${c.row.original.krUnit}`}</span> },
       { id: "dG", header: "ΔG‡ / kJ mol⁻¹", accessorFn: (r) => r.dG, cell: (c) => <span className="num">{c.getValue<number | null>() === null ? "—" : num(c.getValue<number>() / 1000, 4)}</span> },
