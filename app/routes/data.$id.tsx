@@ -26,6 +26,7 @@ import { createFit, getFit, getFitSnapshot, listFitsForDataset } from "../../db/
 import { nameKeyOf, namer, type NameKey, type NamedDocument, type Names } from "~/components/names";
 import { StepName } from "~/components/StepName";
 import { saveFitAsStepVersions, type SaveOutcome } from "~/compute/fit-save.server";
+import { unitText } from "~/components/units-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.dataset?.name ?? "Dataset"} · Saddlebook` }];
@@ -152,7 +153,7 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
           {Object.entries(d.mapping.species)
             .map(([c, s]) => (c === names.species(s) ? c : `“${c}” → ${names.species(s)}`))
             .join(", ")}{" "}
-          in {d.concentrationUnit === "umol/L" ? "µmol/L" : d.concentrationUnit}
+          in {unitText(d.concentrationUnit)}
         </div>
         <div>
           <span className="text-ink-500">Rows:</span> <span className="num">{d.rowCount}</span>

@@ -24,6 +24,7 @@ import { createRun, getRunSeries } from "../../db/access/runs.server";
 import { datasetOverlay, type OverlaySeries } from "~/compute/dataset-overlay.server";
 import { listDatasets } from "../../db/access/datasets.server";
 import { StatusBadge } from "~/components/workbench/StatusBadge";
+import { unitText } from "~/components/units-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.run ? `Run #${data.run.id}` : "Run"} · Saddlebook` }];
@@ -174,7 +175,7 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
         <div>
           <span className="text-ink-500">Initial:</span>{" "}
           {Object.entries(run.conditions.initial)
-            .map(([id, q]) => `${names.species(id)} ${q.value} ${q.unit === "umol/L" ? "µmol/L" : q.unit}`)
+            .map(([id, q]) => `${names.species(id)} ${q.value} ${unitText(q.unit)}`)
             .join(", ")}
         </div>
         <div>

@@ -113,10 +113,10 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
                 t½ #{b.id}
               </th>
               <th>
-                final c #{a.id} / mol L⁻¹
+                final c #{a.id} (mol/L)
               </th>
               <th>
-                final c #{b.id} / mol L⁻¹
+                final c #{b.id} (mol/L)
               </th>
               <th>
                 yield #{a.id}

@@ -16,6 +16,7 @@ import { StatusBadge } from "~/components/library/StatusBadge";
 import { energyIn, entropyIn, sig, temperatureText, unitLabel } from "~/components/library/format";
 import { barrierRows } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
+import { thermalReferenceWarning } from "~/components/barrier-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.label ?? "Step"} · Saddlebook` }];
@@ -43,7 +44,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const temps = Array.from({ length: 9 }, (_, i) => lo + ((hi - lo) * i) / 8);
   const kT = temps.map((T) => {
     const r = rateConstant(v.kinetics, T);
-    return { T, k: r.ok ? r.value.k : null, unit: r.ok ? r.value.units : "", extrapolated: r.ok ? r.value.extrapolated : false };
+    return { T, k: r.ok ? r.value.k : null, unit: r.ok ? r.value.units : "", extrapolated: r.ok ? r.value.extrapolated : false, farFromReference: !!thermalReferenceWarning(v.content.barrier, T) };
   });
   const term = (t: { species: string; coef: number }) => {
     const s = d.species.get(speciesIdOfKey(t.species) ?? -1);
@@ -84,6 +85,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         }
       : null,
     derivedError: d298.ok ? null : d298.error.message,
+    thermalNote: thermalReferenceWarning(v.content.barrier, 298.15),
     kT,
     range: v.t_min ? { lo: v.t_min, hi: v.t_max } : null,
     uncertainty: energyIn(v.uncertainty, eu),
@@ -228,6 +230,11 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
         </section>
         <section className="panel">
           <h2 className="font-semibold">Every form at 298.15 K (1 mol/L standard state)</h2>
+          {d.thermalNote && (
+            <p className="mt-1 text-xs text-brick-700" data-testid="thermal-reference-warning">
+              {d.thermalNote}
+            </p>
+          )}
           {d.derived ? (
             <dl className="mt-2 grid grid-cols-2 gap-1 text-sm">
               <dt>k</dt>
@@ -287,6 +294,7 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                   <td className="num">
                     {sig(r.k)} {r.unit}
                     {r.extrapolated ? " *" : ""}
+                    {r.farFromReference ? " †" : ""}
                   </td>
                 </tr>
               ))}
@@ -295,7 +303,8 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
           <KPlot points={d.kT} />
         </div>
         <p className="mt-2 text-xs text-ink-600">
-          * ΔG‡ held constant away from its reference temperature. Predictions are estimates: where k feeds a thermal-hazard or scale-up decision, calorimetry and the site's process-safety review decide, and local codes and licensed practice govern.
+          * ΔG‡ held constant away from its reference temperature.
+          {d.kT.some((r) => r.farFromReference) && " † More than 50 K from the reference temperature of Ea and ΔS‡ (thermal form): ΔH‡ and ΔS‡ taken as constant, an extrapolation."} Predictions are estimates: where k feeds a thermal-hazard or scale-up decision, calorimetry and the site's process-safety review decide, and local codes and licensed practice govern.
         </p>
       </section>
       <div className="grid gap-4 md:grid-cols-2">

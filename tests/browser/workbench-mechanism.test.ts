@@ -6,7 +6,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { appUrl, hasApp, openBrowser, ownMechanismIds, type BrowserSession, signIn } from "../support/browser";
 
 
-const kOf = (text: string) => Number(text.trim().split(/\s+/)[0]);
+import { parseFormatted } from "../../app/components/format";
+
+const kOf = (text: string) => parseFormatted(text); // "7.092×10⁻⁴ L mol⁻¹ s⁻¹" → 7.092e-4
 /** What an internal key looks like: s<id> for a species, L<id> for a library step. */
 const KEY = /\b[sL]\d+\b/;
 

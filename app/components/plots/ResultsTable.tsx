@@ -7,6 +7,7 @@ import { useMemo, useState } from "react";
 import { flexRender, getCoreRowModel, getPaginationRowModel, useReactTable, type ColumnDef } from "@tanstack/react-table";
 import { downloadBlob } from "./svg-export";
 import { resultsCsv } from "./results-csv";
+import { formatNumber } from "../format";
 
 export interface TableSeries {
   key: string;
@@ -23,12 +24,8 @@ export interface TableSeries {
 
 type Row = { t: number; T: number | null; v: (number | null)[] };
 
-function fmt(v: number | null | undefined): string {
-  if (v == null || !Number.isFinite(v)) return "";
-  const a = Math.abs(v);
-  if (a !== 0 && (a < 1e-3 || a >= 1e5)) return v.toExponential(4);
-  return Number(v.toPrecision(6)).toString();
-}
+/** Blank for a missing value; otherwise six significant figures in the one number format of every page (the CSV keeps full precision). */
+const fmt = (v: number | null | undefined) => (v == null || !Number.isFinite(v) ? "" : formatNumber(v, 6));
 
 /** Rows on the union of all series' times (exact matches; series sharing a grid line up). */
 export function mergeRows(series: TableSeries[], temperatures?: { times: ArrayLike<number>; values: ArrayLike<number> }): Row[] {
@@ -74,9 +71,9 @@ export function ResultsTable({
   const [pageSize, setPageSize] = useState(25);
   const columns = useMemo<ColumnDef<Row>[]>(
     () => [
-      { id: "t", header: "time / s", accessorFn: (r) => r.t, cell: (c) => fmt(c.getValue<number>()) },
-      { id: "T", header: "T / K", accessorFn: (r) => r.T, cell: (c) => fmt(c.getValue<number | null>()) },
-      ...series.map<ColumnDef<Row>>((s, j) => ({ id: `s${j}`, header: `${s.label} / mol L⁻¹`, accessorFn: (r) => r.v[j], cell: (c) => fmt(c.getValue<number | null>()) })),
+      { id: "t", header: "time (s)", accessorFn: (r) => r.t, cell: (c) => fmt(c.getValue<number>()) },
+      { id: "T", header: "T (K)", accessorFn: (r) => r.T, cell: (c) => fmt(c.getValue<number | null>()) },
+      ...series.map<ColumnDef<Row>>((s, j) => ({ id: `s${j}`, header: `${s.label} (mol/L)`, accessorFn: (r) => r.v[j], cell: (c) => fmt(c.getValue<number | null>()) })),
     ],
     [series],
   );

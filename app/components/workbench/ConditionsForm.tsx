@@ -275,7 +275,7 @@ export function ConditionsForm({
           {err("rtol")}
         </label>
         <label className="block">
-          <span className="label">atol / mol L⁻¹</span>
+          <span className="label">atol (mol/L)</span>
           <input className={cls("atol")} value={draft.atol} onChange={(e) => set("atol", e.target.value)} />
           {err("atol")}
         </label>

@@ -85,7 +85,7 @@ function BarrierFields({ d, onChange, prefix }: { d: BarrierDraft; onChange: (d:
       </label>
       {d.form === "dG" ? (
         <label className="block">
-          <span className="label">at T (K)</span>
+          <span className="label">reference temperature (K)</span>
           <input className="field num" aria-label={`${prefix} barrier T in K`} inputMode="decimal" value={d.T} onChange={(e) => onChange({ ...d, T: e.target.value })} />
         </label>
       ) : (
@@ -349,7 +349,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
           {entry.kind === "library" && <p className="text-xs text-ink-600">Saving turns this entry into a local step that records library version {entry.versionNumber} as its origin.</p>}
           <BarrierFields d={barrier} onChange={setBarrier} prefix="Step" />
           <label className="inline-flex items-center gap-2">
-            <input type="checkbox" checked={reversible} onChange={(e) => setReversible(e.target.checked)} aria-label="Reversible" /> Reversible (reverse k by detailed balance)
+            <input type="checkbox" checked={reversible} onChange={(e) => setReversible(e.target.checked)} aria-label="Reversible" /> Reversible (k_rev by detailed balance)
           </label>
           <div className="grid grid-cols-3 gap-2">
             <label className="block">
@@ -365,7 +365,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
               </select>
             </label>
             <label className="block">
-              <span className="label">at T (K)</span>
+              <span className="label">reference temperature (K)</span>
               <input className="field num" aria-label="Reaction free energy T in K" inputMode="decimal" value={rxnT} onChange={(e) => setRxnT(e.target.value)} />
             </label>
           </div>

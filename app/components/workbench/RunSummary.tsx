@@ -23,7 +23,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings, names }: { an
           <thead className="text-left text-xs text-ink-500">
             <tr>
               <th className="py-1">Species</th>
-              <th>c₀ / mol L⁻¹</th>
+              <th>c₀ (mol/L)</th>
               <th>converted</th>
               <th>t½ (50 %)</th>
               <th>90 %</th>
@@ -61,7 +61,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings, names }: { an
                   <th className="py-1">Product</th>
                   <th>yield</th>
                   <th>selectivity</th>
-                  <th>max c / mol L⁻¹</th>
+                  <th>max c (mol/L)</th>
                 </tr>
               </thead>
               <tbody>

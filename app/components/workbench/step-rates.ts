@@ -8,6 +8,7 @@
 import { stepToEngine, type MechanismDocument } from "../../../solver/exchange-format";
 import { convertBarrier, reverseRateConstant } from "../../../solver/index";
 import { namesOf } from "../names";
+import { thermalReferenceWarning } from "../barrier-text";
 
 export interface StepNumbers {
   id: string;
@@ -30,13 +31,15 @@ export interface StepNumbers {
   halfLife: number | null;
   extrapolated: boolean;
   problem: string | null;
+  /** A caution that does not stop the numbers, e.g. a thermal-form barrier used far from its reference temperature. */
+  caution: string | null;
 }
 
 export function stepNumbers(doc: MechanismDocument, T: number): StepNumbers[] {
   const names = namesOf(doc);
   return doc.steps.map((st, i) => {
     const m = st.reactants.reduce((s, t) => s + t.coef, 0);
-    const base: StepNumbers = { id: st.id, label: names.step(st.id), reaction: names.reaction(st.id), reversible: st.reversible, molecularity: m, form: st.barrier.form, kf: null, kfUnit: "", kr: null, krUnit: null, dG: null, dGrxn: null, halfLife: null, extrapolated: false, problem: null };
+    const base: StepNumbers = { id: st.id, label: names.step(st.id), reaction: names.reaction(st.id), reversible: st.reversible, molecularity: m, form: st.barrier.form, kf: null, kfUnit: "", kr: null, krUnit: null, dG: null, dGrxn: null, halfLife: null, extrapolated: false, problem: null, caution: thermalReferenceWarning(st.barrier, T) };
     const eng = stepToEngine(st, `steps[${i}]`);
     if (!eng.ok) return { ...base, problem: eng.error.message };
     const c = convertBarrier({ ...eng.value, targetStandardState: "1M" }, T, `steps[${i}]`);
