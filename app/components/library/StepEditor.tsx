@@ -14,6 +14,7 @@ import { convertBarrier } from "../../../solver/rates";
 import { ENERGY_CHOICES, ENTROPY_CHOICES, energyIn, entropyIn, sig, unitLabel } from "./format";
 import { SOURCE_TYPES } from "./step-schema";
 import { thermalReferenceWarning } from "../barrier-text";
+import { barrierWarning } from "../step-guards";
 
 export interface EditorSpecies {
   id: number;
@@ -59,6 +60,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
   }, [built.input, T, f.tu]);
 
   const thermalNote = live && "value" in live && live.TK && built.input ? thermalReferenceWarning(built.input.barrier, live.TK) : null;
+  const barrierNote = live && "value" in live && live.value && live.TK ? barrierWarning({ dG: live.value.dG, kf: live.value.k, kfUnit: live.value.units }, live.TK) : null;
 
   const balance = useMemo(() => {
     const side = (ts: StepFormState["reactants"]) =>
@@ -360,6 +362,11 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 {sig(live.value.A)} {live.value.units}
               </dd>
             </dl>
+          )}
+          {barrierNote && (
+            <p className="mt-2 text-xs text-brick-700" role="status" data-testid="barrier-warning">
+              {barrierNote}
+            </p>
           )}
           {thermalNote && (
             <p className="mt-2 text-xs text-brick-700" role="status" data-testid="thermal-reference-warning">

@@ -9,6 +9,7 @@ import { stepToEngine, type MechanismDocument } from "../../../solver/exchange-f
 import { convertBarrier, reverseRateConstant } from "../../../solver/index";
 import { namesOf } from "../names";
 import { thermalReferenceWarning } from "../barrier-text";
+import { barrierWarning } from "../step-guards";
 
 export interface StepNumbers {
   id: string;
@@ -45,6 +46,8 @@ export function stepNumbers(doc: MechanismDocument, T: number): StepNumbers[] {
     const c = convertBarrier({ ...eng.value, targetStandardState: "1M" }, T, `steps[${i}]`);
     if (!c.ok) return { ...base, problem: c.error.message };
     const out: StepNumbers = { ...base, kf: c.value.k, kfUnit: c.value.units, dG: c.value.dG, extrapolated: !!c.value.extrapolated, halfLife: m === 1 && c.value.k > 0 ? Math.LN2 / c.value.k : null };
+    const guard = barrierWarning({ dG: c.value.dG, kf: c.value.k, kfUnit: c.value.units }, T);
+    if (guard) out.caution = [guard, out.caution].filter(Boolean).join(" ");
     if (eng.value.thermo) {
       const r = reverseRateConstant(eng.value, T, `steps[${i}]`);
       if (r.ok) {
