@@ -30,6 +30,7 @@ import { applyGraphEdit, graphEditFailure } from "~/compute/graph-edit.server";
 import { AddStepControl, StepEditPanel, type EntryInfo } from "~/components/workbench/GraphEditing";
 import { listRuns } from "../../db/access/runs.server";
 import { NotFoundError } from "../../db/access/library-errors";
+import { useLeaveGuard } from "~/components/LeaveGuard";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `Workbench · ${data?.name ?? "Mechanism"} · Saddlebook` }];
@@ -147,6 +148,11 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   })();
   const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
   const names = useMemo(() => namesOf(L.doc), [L.doc]);
+  // Unsaved input in the graph's forms (new step, step panel) makes leaving the page ask first.
+  const [dirty, setDirty] = useState({ add: false, panel: false });
+  const addDirty = useCallback((d: boolean) => setDirty((x) => (x.add === d ? x : { ...x, add: d })), []);
+  const panelDirty = useCallback((d: boolean) => setDirty((x) => (x.panel === d ? x : { ...x, panel: d })), []);
+  const leave = useLeaveGuard(dirty.add || dirty.panel);
   const [selected, setSelected] = useState<string | null>(null);
   const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
@@ -206,6 +212,7 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   const active = run && (run.status === "queued" || run.status === "running");
   return (
     <div className="space-y-4">
+      {leave.dialog}
       <header className="flex flex-wrap items-center gap-3">
         <h1 className="text-2xl font-semibold tracking-tight">
           {L.name} <span className="text-base font-normal text-ink-500">version {L.version}{L.version !== L.latest ? ` (latest ${L.latest})` : ""}</span>
@@ -235,14 +242,14 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
         <div className="panel">
           <div className="mb-2 flex items-center gap-2">
             <h2 className="font-semibold">Graph</h2>
-            {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={T} />}
+            {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={T} onDirty={addDirty} />}
           </div>
           <MechanismGraph doc={L.doc} numbers={numbers} saved={saved} selected={selected} onSelect={setSelected} onPositions={L.canWrite ? savePositions : undefined} />
           <p className="mt-1 text-xs text-ink-500">
             Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
           </p>
           {selected && L.editable && L.entries[selected] && (
-            <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} />
+            <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} onDirty={panelDirty} />
           )}
           {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} names={names} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
         </div>

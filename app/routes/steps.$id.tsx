@@ -1,11 +1,11 @@
 /** A library step: reaction, every barrier form, k(T) over the validity range (table and plot), provenance, history, review, comments, where used. */
-import { Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import type { Route } from "./+types/steps.$id";
 import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { getDb } from "../../db/client.server";
-import { addStepComment, getStep, getStepVersion, proposeStep, reviewStep, reactionText } from "../../db/access/steps.server";
+import { addStepComment, getStep, getStepVersion, proposeStep, restoreStepVersion, reviewStep, reactionText } from "../../db/access/steps.server";
 import { flatten } from "../../db/access/mechanism-diff";
 import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
 import { notifyProposal } from "~/api/library-mail.server";
@@ -17,6 +17,7 @@ import { energyIn, entropyIn, sig, temperatureText, unitLabel } from "~/componen
 import { barrierRows } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
 import { thermalReferenceWarning } from "~/components/barrier-text";
+import { RestoreVersionButton } from "~/components/library/RestoreVersionButton";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.label ?? "Step"} · Saddlebook` }];
@@ -94,6 +95,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     replacedBy: v.replaced_by_step_id,
     balance,
     versions: d.versions,
+    currentNumber: d.step.current_version_number,
     changes,
     prevNumber: prevNumber ?? null,
     reviews: d.reviews,
@@ -112,6 +114,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   const db = getDb();
   const intent = String(form.get("intent") ?? "");
   try {
+    if (intent === "restore") {
+      // An earlier version back as a new one (policy "step.edit", checked in the data layer).
+      const r = await restoreStepVersion(db, user, id, Number(form.get("version")), Number(form.get("baseVersion")) || undefined);
+      return redirect(`/steps/${id}?restored=${r.version}`);
+    }
     if (intent === "comment") await addStepComment(db, user, id, { body: String(form.get("body") ?? "") });
     else if (intent === "propose") {
       await proposeStep(db, user, id, String(form.get("comment") ?? "") || undefined);
@@ -351,6 +358,9 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                 v{v.number}
               </Link>{" "}
               <StatusBadge status={v.status} /> {v.message} — {v.author ?? "?"}, {new Date(v.created_at).toISOString().slice(0, 16).replace("T", " ")} UTC
+              {d.may.edit && v.number !== d.currentNumber && (
+                <RestoreVersionButton version={v.number} current={d.currentNumber} disabled={busy} label={`Restore version ${v.number} as version ${d.currentNumber + 1}`} />
+              )}
             </li>
           ))}
         </ul>

@@ -15,6 +15,7 @@ import { ENERGY_CHOICES, ENTROPY_CHOICES, energyIn, entropyIn, sig, unitLabel } 
 import { SOURCE_TYPES } from "./step-schema";
 import { thermalReferenceWarning } from "../barrier-text";
 import { barrierWarning } from "../step-guards";
+import { useLeaveGuard } from "../LeaveGuard";
 
 export interface EditorSpecies {
   id: number;
@@ -43,6 +44,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
   const [T, setT] = useState(initial.tu === "C" ? "25" : "298.15");
   const [touched, setTouched] = useState(false);
   const busy = useNavigation().state === "submitting";
+  const leave = useLeaveGuard(JSON.stringify(f) !== JSON.stringify(initial));
   const set = <K extends keyof StepFormState>(k: K, v: StepFormState[K]) => setF((s) => ({ ...s, [k]: v }));
   const built = useMemo(() => buildStepInput(f), [f]);
   const errors = { ...(touched ? built.errors : {}), ...(serverErrors?.fields ?? {}) };
@@ -135,12 +137,14 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
 
   return (
     <div className="grid gap-4 lg:grid-cols-3">
+      {leave.dialog}
       <Form
         method="post"
         className="space-y-4 lg:col-span-2"
         onSubmit={(e) => {
           setTouched(true);
           if (!built.input) e.preventDefault();
+          else leave.allowLeaving();
         }}
       >
         <CsrfInput />

@@ -16,6 +16,7 @@ import { StepTermsEditor, emptyTerms, termsOf, type TermsDraft } from "../StepTe
 import { termsBalance } from "../step-guards";
 import { stepNumbers } from "../workbench/step-rates";
 import { reactionText } from "../names";
+import { useLeaveGuard } from "../LeaveGuard";
 
 export interface EditorEntry {
   key: string;
@@ -151,6 +152,17 @@ export function MechanismEditor(p: Props) {
   };
 
   const [spPick, setSpPick] = useState("");
+  // Unsaved: any change to the mechanism, a typed change message, or a local step half typed.
+  const dirty =
+    name !== p.name ||
+    description !== p.description ||
+    visibility !== p.visibility ||
+    message.trim() !== "" ||
+    JSON.stringify(species.map((s) => s.key)) !== JSON.stringify(p.species.map((s) => s.key)) ||
+    JSON.stringify(entries) !== JSON.stringify(p.entries) ||
+    JSON.stringify(ls) !== JSON.stringify(freshLocal) ||
+    JSON.stringify(terms) !== JSON.stringify(emptyTerms());
+  const leave = useLeaveGuard(dirty);
   const payload = JSON.stringify({
     name,
     description: description || undefined,
@@ -169,6 +181,7 @@ export function MechanismEditor(p: Props) {
 
   return (
     <div className="space-y-4" data-testid="mechanism-editor">
+      {leave.dialog}
       {p.error && (
         <div className="rounded bg-brick-100 px-3 py-2 text-sm text-brick-700" role="alert">
           <p>{p.error.message}</p>
@@ -330,7 +343,7 @@ export function MechanismEditor(p: Props) {
         </div>
       </section>
 
-      <Form method="post" className="panel flex flex-wrap items-end gap-2">
+      <Form method="post" className="panel flex flex-wrap items-end gap-2" onSubmit={leave.allowLeaving}>
         <CsrfInput />
         <input type="hidden" name="intent" value="save" />
         <input type="hidden" name="payload" value={payload} />

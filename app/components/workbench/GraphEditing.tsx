@@ -238,7 +238,27 @@ function SaveEdit({
 // ------------------------------------------------------------ add a step
 
 
-export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: MechanismDocument; allSpecies: Array<{ id: number; label: string; formula: string | null }>; baseVersion: number; T: number | null }) {
+/** Tells the page whether a form part holds unsaved input (for its leave guard); false again when it unmounts. */
+function useReportDirty(dirty: boolean, onDirty?: (dirty: boolean) => void) {
+  useEffect(() => {
+    onDirty?.(dirty);
+  }, [dirty, onDirty]);
+  useEffect(() => () => onDirty?.(false), [onDirty]);
+}
+
+export function AddStepControl({
+  doc,
+  allSpecies,
+  baseVersion,
+  T,
+  onDirty,
+}: {
+  doc: MechanismDocument;
+  allSpecies: Array<{ id: number; label: string; formula: string | null }>;
+  baseVersion: number;
+  T: number | null;
+  onDirty?: (dirty: boolean) => void;
+}) {
   const [open, setOpen] = useState(false);
   const [mode, setMode] = useState<"library" | "local">("library");
   const [q, setQ] = useState("");
@@ -276,6 +296,7 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
     return m;
   }, [doc.species, allSpecies]);
   const localBalance = localStep ? termsBalance(localStep.reactants, localStep.products, (k) => formulaOf.get(k)) : null;
+  useReportDirty(localLabel.trim() !== "" || JSON.stringify(terms) !== JSON.stringify(emptyTerms()) || JSON.stringify(barrier) !== JSON.stringify(freshBarrier()), onDirty);
   const resetLocal = () => {
     setLocalLabel("");
     setTerms(emptyTerms());
@@ -349,7 +370,23 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
 
 // ------------------------------------------------------------ side panel
 
-export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id: string; doc: MechanismDocument; entry: EntryInfo; T: number | null; baseVersion: number; onClose: () => void }) {
+export function StepEditPanel({
+  id,
+  doc,
+  entry,
+  T,
+  baseVersion,
+  onClose,
+  onDirty,
+}: {
+  id: string;
+  doc: MechanismDocument;
+  entry: EntryInfo;
+  T: number | null;
+  baseVersion: number;
+  onClose: () => void;
+  onDirty?: (dirty: boolean) => void;
+}) {
   const st = doc.steps.find((s) => s.id === id);
   const here = useMemo(() => (st && T ? stepNumbers({ ...doc, steps: [st] }, T)[0] : null), [doc, st, T]);
   const [editing, setEditing] = useState(entry.kind === "local");
@@ -368,6 +405,9 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
     return { ...rest, barrier: barrierOf(barrier), reversible, ...(rt ? { reactionThermo: rt } : {}) };
   }, [st, thermo, barrier, reversible, rxn, rxnUnit, rxnT]);
   const valid = draft && StepSchema.safeParse(draft).success ? draft : null;
+  // Unsaved: anything changed since the panel opened (it opens afresh on each saved version).
+  const [opened] = useState(() => JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }));
+  useReportDirty(JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }) !== opened, onDirty);
   if (!st) return null;
   const names = namesOf(doc);
   const name = names.step(id);
