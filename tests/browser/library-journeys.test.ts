@@ -42,7 +42,7 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
 
   it("guards the local step form: a species made on the spot, more than two reactants, balance and barrier warnings", async () => {
     b = await openBrowser();
-    await signIn(b, "author@saddlebook.test");
+    await signIn(b, "author2@saddlebook.test"); // not "author": the workbench tests open that user's newest mechanism
     const { page } = b;
     await page.goto(appUrl() + "/mechanisms");
     await page.getByLabel("Name", { exact: true }).fill("Guarded local step (illustrative)");
