@@ -18,6 +18,7 @@ import { barrierRows } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
 import { thermalReferenceWarning } from "~/components/barrier-text";
 import { RestoreVersionButton } from "~/components/library/RestoreVersionButton";
+import { fieldText, fieldValueText } from "~/components/field-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.label ?? "Step"} · Saddlebook` }];
@@ -61,6 +62,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const b = flatten({ ...v.content, id: undefined });
     for (const p of new Set([...a.keys(), ...b.keys()])) if (p !== "id" && a.get(p) !== b.get(p)) changes.push({ path: p, old: a.get(p) ?? null, new: b.get(p) ?? null });
     if (prev.status !== v.status) changes = [{ path: "status", old: prev.status, new: v.status }, ...changes];
+    // Species by name, never by key (the earlier version may name species this one no longer has).
+    const keys = changes.filter((c) => /\.species$/.test(c.path)).flatMap((c) => [c.old, c.new]).filter((x): x is string => typeof x === "string");
+    const ids = [...new Set(keys.map((k) => speciesIdOfKey(k)).filter((n): n is number => n !== null))];
+    const labels = new Map<number, string>(ids.length ? (await db("species").whereIn("id", ids).select("id", "label")).map((r: { id: number; label: string }) => [r.id, r.label]) : []);
+    const name = (k: unknown) => (typeof k === "string" ? (labels.get(speciesIdOfKey(k) ?? -1) ?? k) : k);
+    changes = changes.map((c) => (/\.species$/.test(c.path) ? { ...c, old: name(c.old), new: name(c.new) } : c));
   }
   return {
     id,
@@ -376,9 +383,9 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                 <tbody>
                   {d.changes.map((c) => (
                     <tr key={c.path}>
-                      <td className="pr-4 font-mono">{c.path}</td>
-                      <td className="num pr-4 text-brick-700">{String(c.old ?? "—")}</td>
-                      <td className="num text-moss-700">{String(c.new ?? "—")}</td>
+                      <td className="pr-4">{fieldText(c.path)}</td>
+                      <td className="num pr-4 text-brick-700">{fieldValueText(c.path, c.old)}</td>
+                      <td className="num text-moss-700">{fieldValueText(c.path, c.new)}</td>
                     </tr>
                   ))}
                 </tbody>

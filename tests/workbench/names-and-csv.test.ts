@@ -121,3 +121,20 @@ describe("results CSV", () => {
     expect(csv.split("\n").find((l) => l.startsWith("time"))).toBe('time (s),T (K),"2,4-DNP (mol/L)"');
   });
 });
+
+describe("changed fields between versions, in words", () => {
+  it("names the field and shows the value as the screens do, species by name", async () => {
+    const { fieldText, fieldValueText } = await import("../../app/components/field-text");
+    expect(fieldText("barrier.dG")).toBe("ΔG‡");
+    expect(fieldText("barrier.standardState")).toBe("standard state");
+    expect(fieldText("reactants[1].species")).toBe("reactant 2");
+    expect(fieldText("products[0].coef")).toBe("product 1 coefficient");
+    expect(fieldText("provenance.doi")).toBe("provenance: DOI");
+    const n = namesOf(doc);
+    expect(fieldValueText("reactants[0].species", "s12", n.species)).toBe("Ketene");
+    expect(fieldValueText("barrier.standardState", "1bar")).toBe("1 bar");
+    expect(fieldValueText("barrier.entropyUnit", "J/(mol K)")).toBe("J/(mol·K)");
+    expect(fieldValueText("barrier.dG", 1.5e-7)).toBe("1.5×10⁻⁷");
+    expect(fieldValueText("barrier.dH", null)).toBe("—");
+  });
+});
