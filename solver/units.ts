@@ -62,8 +62,8 @@ export function energyFromJPerMol(valueJPerMol: number, unit: EnergyUnit, path =
 // ---------------------------------------------------------------- entropy (molar)
 
 export const ENTROPY_UNITS = [
-  { id: "J/(mol K)", label: "J mol⁻¹ K⁻¹" },
-  { id: "cal/(mol K)", label: "cal mol⁻¹ K⁻¹ (e.u.)" },
+  { id: "J/(mol K)", label: "J/(mol·K)" },
+  { id: "cal/(mol K)", label: "cal/(mol·K) (e.u.)" },
 ] as const;
 export type EntropyUnit = (typeof ENTROPY_UNITS)[number]["id"];
 

@@ -20,6 +20,8 @@ import { compileMechanism } from "../../solver/index";
 import { createRun, getRun, getRunSeries, listRuns, requestCancel, runAsOwned, type RunRecord, type RunSeries } from "../../db/access/runs.server";
 import { AnalysisRequestSchema, ConditionsSchema, RUN_MAX_VALUES, SolverSettingsSchema, resolveSolver, toEngineConditions } from "./run-request";
 import { getComputeService } from "./pool.server";
+import { nameKeyOf, namer, type NameKey, type NamedDocument } from "~/components/names";
+import { resultsCsv } from "~/components/plots/results-csv";
 import { loadMechanismDocument } from "./mechanism-source.server";
 
 export const RunCreateSchema = z
@@ -206,16 +208,25 @@ export async function handleCancelRun(db: Knex, actor: Actor, idParam: string | 
   return jsonResponse({ run: runJson(run!) }, { status: 202 });
 }
 
-/** CSV of a finished run: time (s), T (K), one column per species (mol/L). */
-export function seriesCsv(s: RunSeries, labels?: Record<string, string>): string {
-  const esc = (v: string) => (/[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
-  const head = ["time_s", "T_K", ...s.speciesIds.map((id) => `${esc(labels?.[id] ?? id)}_mol_per_L`)].join(",");
-  const lines = [head];
-  for (let k = 0; k < s.times.length; k++) {
-    const row = [s.times[k], s.temperatures[k], ...s.conc.map((c) => c[k])].map((v) => (Number.isFinite(v) ? String(v) : "")).join(",");
-    lines.push(row);
-  }
-  return lines.join("\n") + "\n";
+/**
+ * CSV of a finished run: time (s), T (K), one column per species (mol/L) headed by the species'
+ * name, with a key from names to the mechanism's ids (layout in app/components/plots/results-csv.ts).
+ */
+export function seriesCsv(s: RunSeries, names: NameKey, title: string): string {
+  const n = namer(names);
+  const formula = (id: string) => names.species[id]?.[1] || undefined;
+  return resultsCsv({
+    title,
+    columns: s.speciesIds.map((id) => ({ name: n.species(id), unit: "mol/L", id, formula: formula(id) })),
+    rows: (function* () {
+      for (let k = 0; k < s.times.length; k++) yield [s.times[k], s.temperatures[k], ...s.conc.map((c) => c[k])];
+    })(),
+  });
+}
+
+/** The name key of a run's snapshot (species and step names by id). */
+export function runNameKey(run: Pick<RunRecord, "snapshot">): NameKey {
+  return nameKeyOf(run.snapshot as NamedDocument | null);
 }
 
 export async function handleRunCsv(db: Knex, actor: Actor | null, idParam: string | undefined): Promise<Response> {
@@ -224,7 +235,7 @@ export async function handleRunCsv(db: Knex, actor: Actor | null, idParam: strin
   if (r.run.status !== "done") return apiError(409, "not_done", `Run ${r.run.id} has no results (${r.run.status}).`);
   const s = await getRunSeries(db, r.run.id);
   if (!s) return apiError(409, "not_done", `Run ${r.run.id} has no results.`);
-  return new Response(seriesCsv(s), {
+  return new Response(seriesCsv(s, runNameKey(r.run), `Saddlebook run #${r.run.id}: ${r.run.name}`), {
     headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="saddlebook-run-${r.run.id}.csv"`, "Cache-Control": "no-store" },
   });
 }

@@ -176,14 +176,14 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
       {actionData?.error && <Notice tone="error">{actionData.error}</Notice>}
       <div className="panel overflow-x-auto p-0">
         <table className="w-full text-sm" aria-label="Users">
-          <thead className="bg-ink-50 text-left text-xs text-ink-600 uppercase">
+          <thead className="bg-ink-50 text-left text-xs text-ink-600">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => {
                   const dir = h.column.getIsSorted();
                   return (
                     <th key={h.id} className="px-3 py-2" aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"}>
-                      <button type="button" className="uppercase hover:text-ink-900" onClick={h.column.getToggleSortingHandler()}>
+                      <button type="button" className="hover:text-ink-900" onClick={h.column.getToggleSortingHandler()}>
                         {flexRender(h.column.columnDef.header, h.getContext())}
                         {dir === "asc" ? " ▲" : dir === "desc" ? " ▼" : ""}
                       </button>
@@ -212,7 +212,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
       <section className="panel overflow-x-auto">
         <h2 className="font-semibold">Recent account events</h2>
         <table className="mt-2 w-full text-sm">
-          <thead className="text-left text-xs text-ink-500 uppercase">
+          <thead className="text-left text-xs text-ink-500">
             <tr>
               <th className="py-1">When (UTC)</th>
               <th>Who</th>

@@ -12,8 +12,8 @@ import {
   ZERO_CELSIUS,
   analyseKinetics,
   parseKineticsText,
+  fieldValue,
   plusMinus,
-  sig,
   type ActivationAnalysis,
   type KineticsSettings,
   type RowError,
@@ -21,6 +21,7 @@ import {
 import { LineFitPlot } from "~/components/plots/LineFitPlot";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { CsrfInput } from "~/components/CsrfInput";
+import { formatNumber } from "~/components/format";
 import { LN_KB_OVER_H, R_GAS } from "../../solver/constants";
 
 export function meta(): Route.MetaDescriptors {
@@ -160,7 +161,7 @@ export default function AnalysisPage({ actionData }: Route.ComponentProps) {
           />
           <Select name="timeUnit" label="k: time" value={String(s.timeUnit)} options={[["s", "s"], ["min", "min"], ["h", "h"]]} />
           <label className="block">
-            <span className="label">ΔG‡ reported at</span>
+            <span className="label">reference temperature of ΔG‡</span>
             <input name="Tref" defaultValue={String(s.Tref)} inputMode="decimal" className={`field num ${data && !data.ok && data.fields.Tref ? "field-error" : ""}`} />
           </label>
           <Select name="TrefUnit" label="unit" value={String(s.TrefUnit)} options={[["K", "K"], ["degC", "°C"]]} />
@@ -199,11 +200,11 @@ function libraryStepLink(a: ActivationAnalysis, settings: KineticsSettings): str
   const Ts = a.rows.map((p) => p.TK);
   const q = new URLSearchParams({
     from: "activation-analysis",
-    dH: sig(e.dH.value * kJ, 6),
-    dS: sig(e.dS.value, 6),
-    tmin: sig(Math.min(...Ts), 6),
-    tmax: sig(Math.max(...Ts), 6),
-    unc: sig(e.dH.se * kJ, 3),
+    dH: fieldValue(e.dH.value * kJ, 6),
+    dS: fieldValue(e.dS.value, 6),
+    tmin: fieldValue(Math.min(...Ts), 6),
+    tmax: fieldValue(Math.max(...Ts), 6),
+    unc: fieldValue(e.dH.se * kJ, 3),
     method: `Eyring regression of ${a.rows.length} k(T) points`,
     notes: `ΔH‡ = ${plusMinus(e.dH.value, e.dH.se, kJ)} kJ/mol, ΔS‡ = ${plusMinus(e.dS.value, e.dS.se)} J/(mol·K) (± standard error), r² = ${e.r2.toFixed(5)}, molecularity ${settings.molecularity}, κ = ${settings.kappa}, ${Math.min(...Ts).toFixed(2)}–${Math.max(...Ts).toFixed(2)} K.`,
   });
@@ -226,15 +227,15 @@ function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; setting
             <dd className="num" data-testid="dH">{plusMinus(e.dH.value, e.dH.se, kJ)} kJ/mol</dd>
             <dt>ΔS‡</dt>
             <dd className="num" data-testid="dS">{plusMinus(e.dS.value, e.dS.se)} J/(mol·K)</dd>
-            <dt>ΔG‡({sig(a.Tref, 5)} K)</dt>
+            <dt>ΔG‡({formatNumber(a.Tref, 5)} K)</dt>
             <dd className="num" data-testid="dG">{plusMinus(e.dG.value, e.dG.se, kJ)} kJ/mol</dd>
             <dt>r²</dt>
             <dd className="num">{e.r2.toFixed(5)}</dd>
           </dl>
           <p className="mt-2 text-xs text-ink-500">
-            ± standard error; {conf} % intervals: ΔH‡ ± {sig(e.dH.ci * kJ, 2)} kJ/mol, ΔS‡ ± {sig(e.dS.ci, 2)} J/(mol·K) (Student t, {e.dof} degrees of freedom).
+            ± standard error; {conf} % intervals: ΔH‡ ± {formatNumber(e.dH.ci * kJ, 2)} kJ/mol, ΔS‡ ± {formatNumber(e.dS.ci, 2)} J/(mol·K) (Student t, {e.dof} degrees of freedom).
             Standard state {settings.molecularity > 1 ? "1 mol/L (k in mol/L units)" : "— (unimolecular: none needed)"}; κ = {settings.kappa}.
-            ΔG‡ at {sig(a.Tref, 5)} K = {sig(TrefC, 5)} °C.
+            ΔG‡ at {formatNumber(a.Tref, 5)} K = {formatNumber(TrefC, 5)} °C.
           </p>
           <Link className="btn-quiet mt-3" to={libraryStepLink(a, settings)} data-testid="save-as-step">
             Save as a library step…
@@ -247,7 +248,7 @@ function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; setting
             <dd className="num" data-testid="Ea">{plusMinus(r.Ea.value, r.Ea.se, kJ)} kJ/mol</dd>
             <dt>A</dt>
             <dd className="num" data-testid="A">
-              {sig(r.A, 4)} {a.kUnitSI}
+              {formatNumber(r.A, 4)} {a.kUnitSI}
             </dd>
             <dt>ln A</dt>
             <dd className="num">{plusMinus(r.lnA.value, r.lnA.se)}</dd>
@@ -255,7 +256,7 @@ function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; setting
             <dd className="num">{r.r2.toFixed(5)}</dd>
           </dl>
           <p className="mt-2 text-xs text-ink-500">
-            ± standard error; {conf} % interval of Ea ± {sig(r.Ea.ci * kJ, 2)} kJ/mol. A is in {a.kUnitSI}; its uncertainty is multiplicative, ×/÷ e^{sig(r.lnA.se, 2)}.
+            ± standard error; {conf} % interval of Ea ± {formatNumber(r.Ea.ci * kJ, 2)} kJ/mol. A is in {a.kUnitSI}; its uncertainty is multiplicative, ×/÷ e^{formatNumber(r.lnA.se, 2)}.
           </p>
         </div>
       </div>
@@ -294,24 +295,24 @@ function Results({ a, settings, eyRef, arRef }: { a: ActivationAnalysis; setting
       <div className="panel overflow-x-auto">
         <h2 className="font-semibold">Points</h2>
         <table className="mt-2 w-full text-sm" data-testid="kt-points">
-          <thead className="text-left text-xs text-ink-500 uppercase">
+          <thead className="text-left text-xs text-ink-500">
             <tr>
               <th className="py-1 pr-3">Line</th>
               <th className="pr-3">T / K</th>
               <th className="pr-3">k / {a.kUnitSI}</th>
               <th className="pr-3">ln(k/T)</th>
               <th className="pr-3">Eyring residual</th>
-              <th className="pr-3">ΔG‡(T) / kJ mol⁻¹</th>
+              <th className="pr-3">ΔG‡(T) (kJ/mol)</th>
             </tr>
           </thead>
           <tbody>
             {a.rows.map((p, i) => (
               <tr key={p.line} className="border-t border-ink-100">
                 <td className="num py-1 pr-3">{p.line}</td>
-                <td className="num pr-3">{sig(p.TK, 6)}</td>
-                <td className="num pr-3">{sig(p.kSI, 4)}</td>
+                <td className="num pr-3">{formatNumber(p.TK, 6)}</td>
+                <td className="num pr-3">{formatNumber(p.kSI, 4)}</td>
                 <td className="num pr-3">{(Math.log(p.kSI / p.TK)).toFixed(4)}</td>
-                <td className="num pr-3">{e.residuals[i].toExponential(2)}</td>
+                <td className="num pr-3">{formatNumber(e.residuals[i], 3)}</td>
                 <td className="num pr-3">{plusMinus(a.dGAt[i].value, a.dGAt[i].se, kJ)}</td>
               </tr>
             ))}

@@ -22,8 +22,11 @@ import { readableRun } from "~/compute/run-api.server";
 import { getDb } from "../../db/client.server";
 import { datasetAsOwned, datasetInSI, getDataset, type DatasetRecord } from "../../db/access/datasets.server";
 import { listRuns, runAsOwned } from "../../db/access/runs.server";
-import { createFit, getFit, listFitsForDataset } from "../../db/access/fits.server";
+import { createFit, getFit, getFitSnapshot, listFitsForDataset } from "../../db/access/fits.server";
+import { nameKeyOf, namer, type NameKey, type NamedDocument, type Names } from "~/components/names";
+import { StepName } from "~/components/StepName";
 import { saveFitAsStepVersions, type SaveOutcome } from "~/compute/fit-save.server";
+import { unitText } from "~/components/units-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.dataset?.name ?? "Dataset"} · Saddlebook` }];
@@ -46,16 +49,27 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const species = Object.values(d.mapping.species);
   const runs = (await listRuns(db, user, { limit: 60 })).filter((r) => r.status === "done");
   const candidates = [];
+  // Species and step names: from the fit's snapshot first, then from the candidate runs' snapshots.
+  const names: NameKey = { species: {}, steps: {} };
+  const learn = (doc: unknown) => {
+    const k = nameKeyOf(doc as NamedDocument | null);
+    names.species = { ...k.species, ...names.species };
+    names.steps = { ...k.steps, ...names.steps };
+  };
+  const fitId = Number(new URL(request.url).searchParams.get("fit") ?? "");
+  const fit = Number.isInteger(fitId) && fitId > 0 ? await getFit(db, fitId) : null;
+  const fitMine = fit && fit.ownerId === user.id && fit.datasetIds.includes(d.id) ? fit : null;
+  if (fitMine) learn(await getFitSnapshot(db, fitMine.id));
   for (const r of runs.slice(0, 30)) {
     const full = await readableRun(db, user, String(r.id));
     if (!full.ok) continue;
-    const snap = full.run.snapshot as { steps?: { id: string }[]; species?: { id: string }[] };
+    const snap = full.run.snapshot as NamedDocument;
+    learn(snap);
     const ids = (snap.species ?? []).map((s) => s.id);
     candidates.push({ id: r.id, name: r.name, steps: (snap.steps ?? []).map((s) => s.id), matches: species.filter((s) => ids.includes(s)).length });
   }
-  const fitId = Number(new URL(request.url).searchParams.get("fit") ?? "");
-  const fit = Number.isInteger(fitId) && fitId > 0 ? await getFit(db, fitId) : null;
   return {
+    names,
     dataset: {
       id: d.id,
       name: d.name,
@@ -72,7 +86,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     series: si.series,
     runs: candidates,
     fits: await listFitsForDataset(db, d.id, user.id),
-    fit: fit && fit.ownerId === user.id && fit.datasetIds.includes(d.id) ? fit : null,
+    fit: fitMine,
   };
 }
 
@@ -115,9 +129,13 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export default function DatasetPage({ loaderData, actionData }: Route.ComponentProps) {
   const { dataset: d, series, runs, fit, fits } = loaderData;
+  const names = useMemo(() => namer(loaderData.names), [loaderData.names]);
   const nav = useNavigation();
-  const plot = useMemo<PlotSeries[]>(() => series.map((s) => ({ key: s.species, label: `${s.species} (measured)`, times: s.times, values: s.values, markers: true })), [series]);
-  const tableSeries = useMemo(() => series.map((s) => ({ key: s.species, label: s.species, times: s.times, values: s.values })), [series]);
+  const plot = useMemo<PlotSeries[]>(() => series.map((s) => ({ key: s.species, label: `${names.species(s.species)} (measured)`, times: s.times, values: s.values, markers: true })), [series, names]);
+  const tableSeries = useMemo(
+    () => series.map((s) => ({ key: s.species, label: names.species(s.species), id: s.species, formula: loaderData.names.species[s.species]?.[1] || undefined, times: s.times, values: s.values })),
+    [series, names, loaderData.names],
+  );
   return (
     <div className="space-y-4">
       <header className="flex flex-wrap items-center gap-3">
@@ -133,9 +151,9 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
         <div>
           <span className="text-ink-500">Columns:</span> time “{d.mapping.time}” in {d.timeUnit};{" "}
           {Object.entries(d.mapping.species)
-            .map(([c, s]) => (c === s ? s : `“${c}” → ${s}`))
+            .map(([c, s]) => (c === names.species(s) ? c : `“${c}” → ${names.species(s)}`))
             .join(", ")}{" "}
-          in {d.concentrationUnit === "umol/L" ? "µmol/L" : d.concentrationUnit}
+          in {unitText(d.concentrationUnit)}
         </div>
         <div>
           <span className="text-ink-500">Rows:</span> <span className="num">{d.rowCount}</span>
@@ -171,7 +189,7 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
               <p className="text-sm text-ink-600">
                 Fit: the model is a run's mechanism snapshot with the run's initial concentrations, at this dataset's temperature. The chosen steps' barriers move together with every form they are entered in.
               </p>
-              <FitChooser runs={runs} />
+              <FitChooser runs={runs} names={names} />
               <button className="btn-primary" disabled={nav.state !== "idle"}>
                 {nav.state !== "idle" ? "Fitting…" : "Fit the ticked barriers"}
               </button>
@@ -188,24 +206,24 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
             Earlier fits:{" "}
             {fits.map((f) => (
               <Link key={f.id} to={`?fit=${f.id}`} className="mr-2 underline">
-                #{f.id} ({f.steps.join(", ")})
+                #{f.id} ({f.steps.map(names.step).join(", ")})
               </Link>
             ))}
           </p>
         )}
       </section>
 
-      {fit && <FitResult fit={fit} saved={(actionData as { saved?: SaveOutcome[] } | undefined)?.saved ?? null} />}
+      {fit && <FitResult fit={fit} names={names} saved={(actionData as { saved?: SaveOutcome[] } | undefined)?.saved ?? null} />}
 
       <section className="panel">
         <h2 className="mb-2 font-semibold">Values</h2>
-        <ResultsTable series={tableSeries} filename={`saddlebook-dataset-${d.id}.csv`} />
+        <ResultsTable series={tableSeries} filename={`saddlebook-dataset-${d.id}.csv`} title={`Saddlebook dataset “${d.name}” at ${num(d.temperatureK, 6)} K (converted to s and mol/L)`} />
       </section>
     </div>
   );
 }
 
-function FitChooser({ runs }: { runs: { id: number; name: string; steps: string[]; matches: number }[] }) {
+function FitChooser({ runs, names }: { runs: { id: number; name: string; steps: string[]; matches: number }[]; names: Names }) {
   const best = [...runs].sort((a, b) => b.matches - a.matches)[0];
   return (
     <div className="space-y-2">
@@ -224,7 +242,7 @@ function FitChooser({ runs }: { runs: { id: number; name: string; steps: string[
         <div className="flex flex-wrap gap-3 text-sm">
           {[...new Set(runs.flatMap((r) => r.steps))].slice(0, 200).map((s) => (
             <label key={s} className="inline-flex items-center gap-1">
-              <input type="checkbox" name="step" value={s} aria-label={`Fit step ${s}`} /> {s}
+              <input type="checkbox" name="step" value={s} aria-label={`Fit step ${names.step(s)}`} /> <StepName names={names} id={s} />
             </label>
           ))}
         </div>
@@ -233,22 +251,22 @@ function FitChooser({ runs }: { runs: { id: number; name: string; steps: string[
   );
 }
 
-function FitResult({ fit, saved }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]>; saved: SaveOutcome[] | null }) {
+function FitResult({ fit, saved, names }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]>; saved: SaveOutcome[] | null; names: Names }) {
   const s = fit.statistics;
   const resid = useMemo<PlotSeries[]>(
     () =>
       fit.residuals.flatMap((r, i) => [
-        { key: `${r.species}:resid`, label: `${r.species} model − measured`, times: r.times, values: r.residual, markers: true, colour: seriesColour(i) },
+        { key: `${r.species}:resid`, label: `${names.species(r.species)} model − measured`, times: r.times, values: r.residual, markers: true, colour: seriesColour(i) },
       ]),
-    [fit],
+    [fit, names],
   );
   const overlay = useMemo<PlotSeries[]>(
     () =>
       fit.residuals.flatMap((r, i) => [
-        { key: `${r.species}:m`, label: `${r.species} measured`, times: r.times, values: r.measured, markers: true, colour: seriesColour(i) },
-        { key: `${r.species}:f`, label: `${r.species} fitted model`, times: r.times, values: r.model, colour: seriesColour(i) },
+        { key: `${r.species}:m`, label: `${names.species(r.species)} measured`, times: r.times, values: r.measured, markers: true, colour: seriesColour(i) },
+        { key: `${r.species}:f`, label: `${names.species(r.species)} fitted model`, times: r.times, values: r.model, colour: seriesColour(i) },
       ]),
-    [fit],
+    [fit, names],
   );
   return (
     <section className="panel space-y-3" data-testid="fit-result">
@@ -266,7 +284,9 @@ function FitResult({ fit, saved }: { fit: NonNullable<Route.ComponentProps["load
         <tbody>
           {fit.fitted.map((p) => (
             <tr key={p.stepId} className="border-t border-ink-100" data-testid={`fit-row-${p.stepId}`}>
-              <td className="py-1">{p.stepId}</td>
+              <td className="py-1">
+                <StepName names={names} id={p.stepId} />
+              </td>
               <td className="num">
                 {p.before.label} = {num(p.before.value, 6)} {p.before.unit === "k" ? "" : p.before.unit}
               </td>
@@ -301,7 +321,7 @@ function FitResult({ fit, saved }: { fit: NonNullable<Route.ComponentProps["load
         <ul className="text-sm" data-testid="fit-saved">
           {saved.map((o) => (
             <li key={o.stepId} className={o.saved ? "text-moss-700" : "text-brick-700"}>
-              {o.stepId}: {o.message}
+              {names.step(o.stepId)}: {names.text(o.message)}
               {o.libraryStepId && (
                 <>
                   {" "}

@@ -13,6 +13,7 @@ import { DatasetMetaSchema, MappingSchema, applyMapping, datasetTemperatureProbl
 import { getDb } from "../../db/client.server";
 import { mechanismReadable } from "../../db/access/mechanisms.server";
 import { createDataset, listDatasets } from "../../db/access/datasets.server";
+import { unitText } from "~/components/units-text";
 
 export function meta(): Route.MetaDescriptors {
   return [{ title: "Measured data · Saddlebook" }];
@@ -111,7 +112,7 @@ export default function DataPage({ loaderData, actionData }: Route.ComponentProp
           <p className="mt-1 text-sm text-ink-600">No datasets uploaded yet.</p>
         ) : (
           <table className="mt-2 w-full text-sm" data-testid="dataset-list">
-            <thead className="text-left text-xs text-ink-500 uppercase">
+            <thead className="text-left text-xs text-ink-500">
               <tr>
                 <th className="py-1 pr-2">Name</th>
                 <th className="pr-2">Species</th>
@@ -133,7 +134,7 @@ export default function DataPage({ loaderData, actionData }: Route.ComponentProp
                   <td className="num pr-2">{Number(d.temperatureK.toPrecision(6))}</td>
                   <td className="num pr-2">{d.rowCount}</td>
                   <td className="pr-2">
-                    {d.timeUnit}, {d.concentrationUnit === "umol/L" ? "µmol/L" : d.concentrationUnit}
+                    {d.timeUnit}, {unitText(d.concentrationUnit)}
                   </td>
                   <td className="pr-2">{d.owner}</td>
                 </tr>

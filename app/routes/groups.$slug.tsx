@@ -156,7 +156,7 @@ export default function GroupPage({ loaderData, actionData }: Route.ComponentPro
       <section className="panel overflow-x-auto">
         <h2 className="font-semibold">Members</h2>
         <table className="mt-2 w-full text-sm">
-          <thead className="text-left text-xs text-ink-500 uppercase">
+          <thead className="text-left text-xs text-ink-500">
             <tr>
               <th className="py-1">Name</th>
               <th>E-mail</th>
@@ -266,7 +266,7 @@ export default function GroupPage({ loaderData, actionData }: Route.ComponentPro
           </Form>
           {invitations.length > 0 && (
             <table className="mt-4 w-full text-sm">
-              <thead className="text-left text-xs text-ink-500 uppercase">
+              <thead className="text-left text-xs text-ink-500">
                 <tr>
                   <th className="py-1">Invited</th>
                   <th>By</th>

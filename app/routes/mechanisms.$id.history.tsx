@@ -1,11 +1,14 @@
-/** A mechanism's history: every version with author, time and message, and the difference between any two. */
-import { Form, Link } from "react-router";
+/** A mechanism's history: every version with author, time and message, the difference between any two, and restoring an earlier version as a new one. */
+import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import type { Route } from "./+types/mechanisms.$id.history";
-import { getOptionalUser } from "~/auth/current-user.server";
+import { getOptionalUser, requireUser } from "~/auth/current-user.server";
+import { assertCsrf } from "~/auth/csrf.server";
+import { can } from "~/auth/policy.server";
 import { getDb } from "../../db/client.server";
-import { diffVersions, getMechanismRow, listMechanismVersions } from "../../db/access/mechanisms.server";
-import { loaderFailure, routeId } from "~/components/library/route-helpers.server";
+import { diffVersions, getMechanismRow, listMechanismVersions, owned, restoreMechanismVersion } from "../../db/access/mechanisms.server";
+import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
 import { DiffView } from "~/components/library/DiffView";
+import { RestoreVersionButton } from "~/components/library/RestoreVersionButton";
 
 export function meta(): Route.MetaDescriptors {
   return [{ title: "History · Saddlebook" }];
@@ -24,13 +27,31 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const Traw = Number(url.searchParams.get("T") ?? "298.15");
     const T = Number.isFinite(Traw) && Traw > 0 ? Traw : 298.15;
     const diff = from !== to && versions.some((v) => v.number === from) && versions.some((v) => v.number === to) ? await diffVersions(db, user, id, from, to, T) : null;
-    return { id, name: m.name, versions, from, to, T, diff };
+    const canRestore = can(user, { do: "mechanism.write", object: owned(m) });
+    return { id, name: m.name, versions, current: m.current_version, canRestore, from, to, T, diff };
   } catch (e) {
     loaderFailure(e);
   }
 }
 
+/** intent=restore: an earlier version back as a new one (policy "mechanism.write", checked in the data layer). */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = await request.formData();
+  await assertCsrf(request, form);
+  const id = routeId(params.id);
+  if (form.get("intent") !== "restore") return { ok: false as const, message: "Unknown action.", fields: {} };
+  try {
+    const r = await restoreMechanismVersion(getDb(), user, id, Number(form.get("version")), Number(form.get("baseVersion")) || undefined);
+    return redirect(`/mechanisms/${id}?saved=${r.version}`);
+  } catch (e) {
+    return actionFailure(e);
+  }
+}
+
 export default function History({ loaderData: d }: Route.ComponentProps) {
+  const failure = useActionData<typeof action>();
+  const busy = useNavigation().state !== "idle";
   return (
     <div className="space-y-4">
       <p className="text-sm text-ink-600">
@@ -40,6 +61,11 @@ export default function History({ loaderData: d }: Route.ComponentProps) {
         › history
       </p>
       <h1 className="text-2xl font-semibold tracking-tight">History</h1>
+      {failure && !failure.ok && (
+        <p role="alert" className="rounded bg-brick-100 px-3 py-2 text-sm text-brick-700">
+          {failure.message}
+        </p>
+      )}
       <table className="panel w-full text-sm">
         <thead>
           <tr className="text-left text-xs text-ink-600">
@@ -47,6 +73,7 @@ export default function History({ loaderData: d }: Route.ComponentProps) {
             <th>Message</th>
             <th>Author</th>
             <th>Saved (UTC)</th>
+            {d.canRestore && <th />}
           </tr>
         </thead>
         <tbody>
@@ -60,6 +87,13 @@ export default function History({ loaderData: d }: Route.ComponentProps) {
               <td>{v.message}</td>
               <td>{v.author}</td>
               <td className="num text-xs">{new Date(v.created_at).toISOString().slice(0, 19).replace("T", " ")}</td>
+              {d.canRestore && (
+                <td className="text-right">
+                  {v.number !== d.current && (
+                    <RestoreVersionButton version={v.number} current={d.current} disabled={busy} label={`Restore v${v.number} as version ${d.current + 1}`} />
+                  )}
+                </td>
+              )}
             </tr>
           ))}
         </tbody>

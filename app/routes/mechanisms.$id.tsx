@@ -6,7 +6,8 @@ import { getOptionalUser, requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { getDb } from "../../db/client.server";
-import { forkMechanism, getMechanism, updateMechanism, updateMechanismSteps } from "../../db/access/mechanisms.server";
+import { forkMechanism, getMechanism, getMechanismRow, owned, updateMechanism, updateMechanismSteps } from "../../db/access/mechanisms.server";
+import { assertCan } from "~/auth/policy.server";
 import { entryAsInput } from "~/components/library/step-schema";
 import { rateAt } from "../../db/access/mechanism-diff";
 import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
@@ -15,6 +16,8 @@ import { MechanismEditor } from "~/components/mechanism-editor/MechanismEditor";
 import { sig } from "~/components/library/format";
 import { StatusBadge } from "~/components/library/StatusBadge";
 import { InputError } from "../../db/access/library-errors";
+import { reactionText } from "~/components/names";
+import { speciesFromForm } from "~/components/library/editor-actions.server";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.name ?? "Mechanism"} · Saddlebook` }];
@@ -36,7 +39,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     loaderFailure(e);
   }
   const labelOf = new Map(d.resolved.species.map((s) => [s.key, s.label]));
-  const side = (ts: Array<{ species: string; coef: number }>) => ts.map((t) => `${t.coef > 1 ? t.coef + " " : ""}${labelOf.get(t.species) ?? t.species}`).join(" + ");
+  const nameOf = (key: string) => labelOf.get(key) ?? key;
   const steps = d.resolved.steps.map((s) => {
     const r = rateAt(s.doc, T);
     return {
@@ -47,7 +50,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       versionNumber: s.versionNumber ?? null,
       status: s.status ?? null,
       label: s.label,
-      reaction: `${side(s.doc.reactants)} ${s.doc.reversible ? "⇌" : "→"} ${side(s.doc.products)}`,
+      reaction: reactionText(s.doc, nameOf),
       k: r.k,
       kUnit: r.unit,
       doc: s.kind === "local" ? s.doc : null,
@@ -101,6 +104,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
       const r = await updateMechanism(db, user, id, payload);
       return redirect(`/mechanisms/${id}?saved=${r.version}`);
+    }
+    if (intent === "species") {
+      // New species from the editor: for those who may change this mechanism.
+      assertCan(user, { do: "mechanism.write", object: owned(await getMechanismRow(db, user, id)) }, "Only the owner can add species from this mechanism's editor.");
+      return await speciesFromForm(db, user, form);
     }
     if (intent === "use-update") {
       const d = await getMechanism(db, user, id);

@@ -16,6 +16,8 @@ import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
 import { CautionNote } from "~/components/workbench/CautionNote";
 import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rates";
+import { namesOf, type Names } from "~/components/names";
+import { describeBarrier } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
@@ -28,6 +30,7 @@ import { applyGraphEdit, graphEditFailure } from "~/compute/graph-edit.server";
 import { AddStepControl, StepEditPanel, type EntryInfo } from "~/components/workbench/GraphEditing";
 import { listRuns } from "../../db/access/runs.server";
 import { NotFoundError } from "../../db/access/library-errors";
+import { useLeaveGuard } from "~/components/LeaveGuard";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `Workbench · ${data?.name ?? "Mechanism"} · Saddlebook` }];
@@ -157,6 +160,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
     return K > 0 ? K : null;
   })();
   const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
+  const names = useMemo(() => namesOf(L.doc), [L.doc]);
+  // Unsaved input in the graph's forms (new step, step panel) makes leaving the page ask first.
+  const [dirty, setDirty] = useState({ add: false, panel: false });
+  const addDirty = useCallback((d: boolean) => setDirty((x) => (x.add === d ? x : { ...x, add: d })), []);
+  const panelDirty = useCallback((d: boolean) => setDirty((x) => (x.panel === d ? x : { ...x, panel: d })), []);
+  const leave = useLeaveGuard(dirty.add || dirty.panel);
   const [selected, setSelected] = useState<string | null>(null);
   const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
@@ -216,6 +225,7 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   const active = run && (run.status === "queued" || run.status === "running");
   return (
     <div className="space-y-4">
+      {leave.dialog}
       <header className="flex flex-wrap items-center gap-3">
         <h1 className="text-2xl font-semibold tracking-tight">
           {L.name} <span className="text-base font-normal text-ink-500">version {L.version}{L.version !== L.latest ? ` (latest ${L.latest})` : ""}</span>
@@ -245,20 +255,20 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
         <div className="panel">
           <div className="mb-2 flex items-center gap-2">
             <h2 className="font-semibold">Graph</h2>
-            {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={T} />}
+            {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={T} onDirty={addDirty} />}
           </div>
           <MechanismGraph doc={L.doc} numbers={numbers} saved={saved} selected={selected} onSelect={setSelected} onPositions={L.canWrite ? savePositions : undefined} />
           <p className="mt-1 text-xs text-ink-500">
             Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
           </p>
           {selected && L.editable && L.entries[selected] && (
-            <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} />
+            <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} onDirty={panelDirty} />
           )}
-          {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
+          {selected && !(L.editable && L.entries[selected]) && <StepPanel id={selected} doc={L.doc} names={names} numbers={numbers} onClose={() => setSelected(null)} mechanismId={L.id} />}
         </div>
         <div className="panel space-y-3">
           <h2 className="font-semibold">Run</h2>
-          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={Object.fromEntries(L.doc.species.map((s) => [s.id, s.label ?? s.id]))} presets={L.presets.map((p) => ({ name: p.name, draft: { ...defaultDraft(L.doc.species.map((s) => s.id)), ...(p.draft as Partial<ConditionsDraft>) } }))} />
+          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={Object.fromEntries(L.doc.species.map((s) => [s.id, names.speciesWithFormula(s.id)]))} presets={L.presets.map((p) => ({ name: p.name, draft: { ...defaultDraft(L.doc.species.map((s) => s.id)), ...(p.draft as Partial<ConditionsDraft>) } }))} />
           <CautionNote heating={heating} concentrated={concentrated} />
           <div className="flex flex-wrap gap-2">
             <button type="button" className="btn-primary" onClick={startRunClick} disabled={!L.canRun || runFetcher.state !== "idle" || !!active}>
@@ -294,12 +304,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
               <div className="h-2 rounded bg-ink-100" role="progressbar" aria-valuenow={Math.round((run.progress / run.tEnd) * 100)}>
                 <div className="h-2 rounded bg-copper-500" style={{ width: `${Math.min(100, (run.progress / run.tEnd) * 100)}%` }} />
               </div>
-              {run.reason && <p className="text-brick-700">{run.reason}</p>}
+              {run.reason && <p className="text-brick-700">{names.text(run.reason)}</p>}
               {run.status === "done" && (
                 <p>
                   {Object.entries(run.analysis?.species ?? {})
                     .filter(([, s]) => s.initial > 0)
-                    .map(([id, s]) => `t½(${id}) ${duration(s.t50)}`)
+                    .map(([id, s]) => `t½(${names.species(id)}) ${duration(s.t50)}`)
                     .join(", ")}{" "}
                   <Link className="font-medium underline" to={`/runs/${run.id}`}>
                     Open the results
@@ -334,9 +344,9 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
             const at = pathway.indexOf(s.id);
             return (
               <label key={s.id} className="inline-flex items-center gap-1">
-                <input type="checkbox" checked={at >= 0} onChange={() => setPathway(at >= 0 ? pathway.filter((x) => x !== s.id) : [...pathway, s.id])} aria-label={`Pathway step ${s.id}`} />
+                <input type="checkbox" checked={at >= 0} onChange={() => setPathway(at >= 0 ? pathway.filter((x) => x !== s.id) : [...pathway, s.id])} aria-label={`Pathway step ${names.step(s.id)}`} />
                 {at >= 0 && <span className="num text-xs text-copper-700">{at + 1}.</span>}
-                {s.label ?? s.id}
+                {names.step(s.id)}
               </label>
             );
           })}
@@ -355,25 +365,36 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function StepPanel({ id, doc, numbers, onClose, mechanismId }: { id: string; doc: Route.ComponentProps["loaderData"]["doc"]; numbers: ReturnType<typeof stepNumbers>; onClose: () => void; mechanismId: number }) {
+function StepPanel({
+  id,
+  doc,
+  names,
+  numbers,
+  onClose,
+  mechanismId,
+}: {
+  id: string;
+  doc: Route.ComponentProps["loaderData"]["doc"];
+  names: Names;
+  numbers: ReturnType<typeof stepNumbers>;
+  onClose: () => void;
+  mechanismId: number;
+}) {
   const st = doc.steps.find((s) => s.id === id);
   const n = numbers.find((x) => x.id === id);
   if (!st || !n) return null;
-  const side = (t: { species: string; coef: number }[]) => t.map((x) => (x.coef > 1 ? `${x.coef} ${x.species}` : x.species)).join(" + ");
   return (
     <aside className="mt-3 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Step details" data-testid="step-panel">
       <div className="flex items-center">
-        <h3 className="font-semibold">{st.label ?? st.id}</h3>
+        <h3 className="font-semibold">{names.step(id)}</h3>
         <button type="button" className="btn-quiet ml-auto py-0" onClick={onClose}>
           Close
         </button>
       </div>
-      <p className="num mt-1">
-        {side(st.reactants)} {st.reversible ? "⇌" : "→"} {side(st.products)}
-      </p>
+      <p className="mt-1">{names.reaction(id)}</p>
       <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
         <dt>barrier</dt>
-        <dd className="num">{JSON.stringify(st.barrier).replace(/[{}"]/g, "").replace(/,/g, ", ")}</dd>
+        <dd className="num">{describeBarrier(st.barrier)}</dd>
         <dt>k_fwd</dt>
         <dd className="num">
           {num(n.kf)} {n.kfUnit}

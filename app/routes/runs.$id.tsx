@@ -16,12 +16,15 @@ import { RunSummary } from "~/components/workbench/RunSummary";
 import { CautionNote } from "~/components/workbench/CautionNote";
 import { duration, num } from "~/components/workbench/format";
 import { HIGH_CONCENTRATION_MOL_L, describeTemperature } from "~/compute/run-request";
-import { cancelRun, readableRun } from "~/compute/run-api.server";
+import { cancelRun, readableRun, runNameKey } from "~/compute/run-api.server";
+import { namer } from "~/components/names";
+import { StepName } from "~/components/StepName";
 import { getDb } from "../../db/client.server";
 import { createRun, getRunSeries } from "../../db/access/runs.server";
 import { datasetOverlay, type OverlaySeries } from "~/compute/dataset-overlay.server";
 import { listDatasets } from "../../db/access/datasets.server";
 import { StatusBadge } from "~/components/workbench/StatusBadge";
+import { unitText } from "~/components/units-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.run ? `Run #${data.run.id}` : "Run"} · Saddlebook` }];
@@ -39,6 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const overlay: OverlaySeries[] | null = Number.isInteger(overlayId) && overlayId > 0 ? await datasetOverlay(db, user, overlayId) : null;
   const datasets = run.status === "done" ? (await listDatasets(db, user, { limit: 100 })).map((d) => ({ id: d.id, name: d.name, T: d.temperatureK })) : [];
   return {
+    names: runNameKey(run),
     datasets,
     overlayId: overlay ? overlayId : null,
     run: {
@@ -109,6 +113,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export default function RunPage({ loaderData, actionData }: Route.ComponentProps) {
   const { run, series, overlay, datasets, overlayId } = loaderData;
+  const names = useMemo(() => namer(loaderData.names), [loaderData.names]);
   const active = run.status === "queued" || run.status === "running";
   const revalidator = useRevalidator();
   const nav = useNavigation();
@@ -122,16 +127,19 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
 
   const plotSeries = useMemo<PlotSeries[]>(() => {
     if (!series) return [];
-    const out: PlotSeries[] = series.speciesIds.map((id, i) => ({ key: id, label: id, times: series.times, values: series.conc[i] }));
+    const out: PlotSeries[] = series.speciesIds.map((id, i) => ({ key: id, label: names.species(id), times: series.times, values: series.conc[i] }));
     if (overlay) {
       for (const o of overlay) {
         const i = series.speciesIds.indexOf(o.species);
-        out.push({ key: `data:${o.species}`, label: `${o.species} (measured)`, times: o.times, values: o.values, markers: true, colour: i >= 0 ? undefined : "#172230" });
+        out.push({ key: `data:${o.species}`, label: `${names.species(o.species)} (measured)`, times: o.times, values: o.values, markers: true, colour: i >= 0 ? undefined : "#172230" });
       }
     }
     return out;
-  }, [series, overlay]);
-  const tableSeries = useMemo(() => (series ? series.speciesIds.map((id, i) => ({ key: id, label: id, times: series.times, values: series.conc[i] })) : []), [series]);
+  }, [series, overlay, names]);
+  const tableSeries = useMemo(
+    () => (series ? series.speciesIds.map((id, i) => ({ key: id, label: names.species(id), id, formula: loaderData.names.species[id]?.[1] || undefined, times: series.times, values: series.conc[i] })) : []),
+    [series, names, loaderData.names],
+  );
   const fraction = run.tEnd > 0 ? Math.min(1, run.progress / run.tEnd) : 0;
   const a = run.analysis;
 
@@ -167,7 +175,7 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
         <div>
           <span className="text-ink-500">Initial:</span>{" "}
           {Object.entries(run.conditions.initial)
-            .map(([id, q]) => `${id} ${q.value} ${q.unit === "umol/L" ? "µmol/L" : q.unit}`)
+            .map(([id, q]) => `${names.species(id)} ${q.value} ${unitText(q.unit)}`)
             .join(", ")}
         </div>
         <div>
@@ -213,7 +221,7 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
       {(run.status === "failed" || run.status === "cancelled") && (
         <section role="alert" className={`panel text-sm ${run.status === "failed" ? "border-brick-500 text-brick-700" : "text-ink-700"}`} data-testid="run-reason">
           <p className="font-semibold">{run.status === "failed" ? (run.failureCode === "budget" ? "Stopped: over the time budget" : "The run failed") : "Cancelled"}</p>
-          <p className="mt-1">{run.reason}</p>
+          <p className="mt-1">{run.reason ? names.text(run.reason) : null}</p>
         </section>
       )}
 
@@ -238,10 +246,15 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
               </Form>
             )}
           </section>
-          <RunSummary analysis={a} statistics={run.statistics!} warnings={run.warnings} />
+          <RunSummary analysis={a} statistics={run.statistics!} warnings={run.warnings} names={names} />
           <section className="panel">
             <h2 className="mb-2 font-semibold">Values</h2>
-            <ResultsTable series={tableSeries} temperatures={{ times: series.times, values: series.temperatures }} filename={`saddlebook-run-${run.id}.csv`} />
+            <ResultsTable
+              series={tableSeries}
+              temperatures={{ times: series.times, values: series.temperatures }}
+              filename={`saddlebook-run-${run.id}.csv`}
+              title={`Saddlebook run #${run.id}: ${run.name}`}
+            />
           </section>
           <section className="panel text-sm">
             <h2 className="font-semibold">Rate constants at {num(a.T0, 5)} K</h2>
@@ -256,7 +269,9 @@ export default function RunPage({ loaderData, actionData }: Route.ComponentProps
               <tbody>
                 {a.rateConstants.map((k) => (
                   <tr key={k.step} className="border-t border-ink-100">
-                    <td className="py-0.5">{k.step}</td>
+                    <td className="py-0.5">
+                      <StepName names={names} id={k.step} />
+                    </td>
                     <td className="num">
                       {num(k.kf)} {k.kfUnit}
                     </td>

@@ -7,7 +7,8 @@ import { useMemo } from "react";
 import { Link } from "react-router";
 import type { Route } from "./+types/runs.compare";
 import { requireUser } from "~/auth/current-user.server";
-import { readableRun } from "~/compute/run-api.server";
+import { readableRun, runNameKey } from "~/compute/run-api.server";
+import { namer, type NameKey } from "~/components/names";
 import { describeTemperature } from "~/compute/run-request";
 import { ConcentrationPlot, type PlotSeries } from "~/components/plots/ConcentrationPlot";
 import { ResultsTable } from "~/components/plots/ResultsTable";
@@ -38,6 +39,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       name: r.run.name,
       temperature: describeTemperature(r.run.conditions),
       snapshotHash: r.run.snapshotHash,
+      names: runNameKey(r.run),
       analysis: r.run.analysis!,
       speciesIds: s.speciesIds,
       times: Array.from(s.times),
@@ -50,19 +52,27 @@ export async function loader({ request }: Route.LoaderArgs) {
 export default function Compare({ loaderData }: Route.ComponentProps) {
   const { problem, runs } = loaderData;
   const allSpecies = useMemo(() => [...new Set(runs.flatMap((r) => r.speciesIds))], [runs]);
+  // Names from both snapshots (the first run's name wins where a fork renamed a species).
+  const names = useMemo(() => {
+    const key: NameKey = { species: {}, steps: {} };
+    for (const r of [...runs].reverse()) Object.assign(key.species, r.names.species), Object.assign(key.steps, r.names.steps);
+    return { key, n: namer(key) };
+  }, [runs]);
   const series = useMemo<PlotSeries[]>(
     () =>
       runs.flatMap((r, j) =>
         r.speciesIds.map((id, i) => ({
           key: `${r.id}:${id}`,
-          label: `#${r.id} ${id}`,
+          label: `${names.n.species(id)} · run #${r.id}`,
+          id,
+          formula: names.key.species[id]?.[1] || undefined,
           times: r.times,
           values: r.conc[i],
           colour: seriesColour(allSpecies.indexOf(id)),
           dash: j === 1 ? [6, 4] : undefined,
         })),
       ),
-    [runs, allSpecies],
+    [runs, allSpecies, names],
   );
   if (problem) {
     return (
@@ -103,10 +113,10 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
                 t½ #{b.id}
               </th>
               <th>
-                final c #{a.id} / mol L⁻¹
+                final c #{a.id} (mol/L)
               </th>
               <th>
-                final c #{b.id} / mol L⁻¹
+                final c #{b.id} (mol/L)
               </th>
               <th>
                 yield #{a.id}
@@ -121,7 +131,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
               const sa = a.analysis.species[id], sb = b.analysis.species[id];
               return (
                 <tr key={id} className="border-t border-ink-100">
-                  <td className="py-0.5">{id}</td>
+                  <td className="py-0.5">{names.n.speciesWithFormula(id)}</td>
                   <td className="num">{sa?.initial ? duration(sa.t50) : "—"}</td>
                   <td className="num">{sb?.initial ? duration(sb.t50) : "—"}</td>
                   <td className="num">{num(sa?.final)}</td>
@@ -136,7 +146,11 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
       </section>
       <section className="panel">
         <h2 className="mb-2 font-semibold">Values of both runs</h2>
-        <ResultsTable series={series.map((s) => ({ key: s.key, label: s.label, times: s.times, values: s.values }))} filename={`saddlebook-compare-${a.id}-${b.id}.csv`} />
+        <ResultsTable
+          series={series.map((s) => ({ key: s.key, label: s.label, id: s.id, formula: s.formula, times: s.times, values: s.values }))}
+          filename={`saddlebook-compare-${a.id}-${b.id}.csv`}
+          title={`Saddlebook runs #${a.id} (${a.name}) and #${b.id} (${b.name})`}
+        />
       </section>
     </div>
   );

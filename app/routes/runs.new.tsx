@@ -12,6 +12,7 @@ import { CsrfInput } from "~/components/CsrfInput";
 import { ConditionsForm, buildRequest, defaultDraft, draftKey, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
 import { RunCreateSchema, startRun } from "~/compute/run-api.server";
 import { getDb } from "../../db/client.server";
+import { namesOf, type NamedDocument } from "~/components/names";
 
 export function meta(): Route.MetaDescriptors {
   return [{ title: "New run · Saddlebook" }];
@@ -72,6 +73,15 @@ export default function NewRun({ actionData }: Route.ComponentProps) {
   const nav = useNavigation();
   const [text, setText] = useState("");
   const species = useMemo(() => speciesOf(text), [text]);
+  const labels = useMemo(() => {
+    if (!species) return undefined;
+    try {
+      const n = namesOf(JSON.parse(text) as NamedDocument);
+      return Object.fromEntries(species.map((id) => [id, n.speciesWithFormula(id)]));
+    } catch {
+      return undefined;
+    }
+  }, [species, text]);
   const [draft, setDraft] = useState<ConditionsDraft>(() => defaultDraft([]));
   const [clientErrors, setClientErrors] = useState<Record<string, string>>({});
   const errors = { ...(actionData?.fields ?? {}), ...clientErrors };
@@ -137,7 +147,7 @@ export default function NewRun({ actionData }: Route.ComponentProps) {
         </div>
         <div className="panel space-y-3">
           <h2 className="font-semibold">Conditions</h2>
-          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} />
+          <ConditionsForm draft={draft} onChange={setDraft} errors={errors} labels={labels} />
           {Object.keys(clientErrors).length > 0 && (
             <p role="alert" className="rounded border border-brick-500 bg-brick-100 p-2 text-sm text-brick-700">
               Check the conditions: {Object.values(clientErrors)[0]}

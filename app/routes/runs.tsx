@@ -56,7 +56,7 @@ export default function RunsPage({ loaderData }: Route.ComponentProps) {
       ) : (
         <Form method="get" action="/runs/compare" className="panel overflow-x-auto">
           <table className="w-full text-sm" data-testid="runs-list">
-            <thead className="text-left text-xs text-ink-500 uppercase">
+            <thead className="text-left text-xs text-ink-500">
               <tr>
                 <th className="py-1 pr-2">Compare</th>
                 <th className="pr-2">Run</th>

@@ -91,7 +91,7 @@ export default function Tokens({ loaderData, actionData }: Route.ComponentProps)
           <p className="mt-2 text-sm text-ink-600">No tokens yet.</p>
         ) : (
           <table className="mt-2 w-full text-sm">
-            <thead className="text-left text-xs text-ink-500 uppercase">
+            <thead className="text-left text-xs text-ink-500">
               <tr>
                 <th className="py-1">Name</th>
                 <th>Starts with</th>

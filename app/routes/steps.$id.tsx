@@ -1,11 +1,11 @@
 /** A library step: reaction, every barrier form, k(T) over the validity range (table and plot), provenance, history, review, comments, where used. */
-import { Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import type { Route } from "./+types/steps.$id";
 import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { getDb } from "../../db/client.server";
-import { addStepComment, getStep, getStepVersion, proposeStep, reviewStep, reactionText } from "../../db/access/steps.server";
+import { addStepComment, getStep, getStepVersion, proposeStep, restoreStepVersion, reviewStep, reactionText } from "../../db/access/steps.server";
 import { flatten } from "../../db/access/mechanism-diff";
 import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
 import { notifyProposal } from "~/api/library-mail.server";
@@ -14,7 +14,11 @@ import { balanceOf } from "~/components/library/balance";
 import { speciesIdOfKey, type StepStatus } from "~/components/library/step-schema";
 import { StatusBadge } from "~/components/library/StatusBadge";
 import { energyIn, entropyIn, sig, temperatureText, unitLabel } from "~/components/library/format";
+import { barrierRows } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
+import { thermalReferenceWarning } from "~/components/barrier-text";
+import { RestoreVersionButton } from "~/components/library/RestoreVersionButton";
+import { fieldText, fieldValueText } from "~/components/field-text";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.label ?? "Step"} · Saddlebook` }];
@@ -42,7 +46,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const temps = Array.from({ length: 9 }, (_, i) => lo + ((hi - lo) * i) / 8);
   const kT = temps.map((T) => {
     const r = rateConstant(v.kinetics, T);
-    return { T, k: r.ok ? r.value.k : null, unit: r.ok ? r.value.units : "", extrapolated: r.ok ? r.value.extrapolated : false };
+    return { T, k: r.ok ? r.value.k : null, unit: r.ok ? r.value.units : "", extrapolated: r.ok ? r.value.extrapolated : false, farFromReference: !!thermalReferenceWarning(v.content.barrier, T) };
   });
   const term = (t: { species: string; coef: number }) => {
     const s = d.species.get(speciesIdOfKey(t.species) ?? -1);
@@ -58,6 +62,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const b = flatten({ ...v.content, id: undefined });
     for (const p of new Set([...a.keys(), ...b.keys()])) if (p !== "id" && a.get(p) !== b.get(p)) changes.push({ path: p, old: a.get(p) ?? null, new: b.get(p) ?? null });
     if (prev.status !== v.status) changes = [{ path: "status", old: prev.status, new: v.status }, ...changes];
+    // Species by name, never by key (the earlier version may name species this one no longer has).
+    const keys = changes.filter((c) => /\.species$/.test(c.path)).flatMap((c) => [c.old, c.new]).filter((x): x is string => typeof x === "string");
+    const ids = [...new Set(keys.map((k) => speciesIdOfKey(k)).filter((n): n is number => n !== null))];
+    const labels = new Map<number, string>(ids.length ? (await db("species").whereIn("id", ids).select("id", "label")).map((r: { id: number; label: string }) => [r.id, r.label]) : []);
+    const name = (k: unknown) => (typeof k === "string" ? (labels.get(speciesIdOfKey(k) ?? -1) ?? k) : k);
+    changes = changes.map((c) => (/\.species$/.test(c.path) ? { ...c, old: name(c.old), new: name(c.new) } : c));
   }
   return {
     id,
@@ -83,6 +93,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         }
       : null,
     derivedError: d298.ok ? null : d298.error.message,
+    thermalNote: thermalReferenceWarning(v.content.barrier, 298.15),
     kT,
     range: v.t_min ? { lo: v.t_min, hi: v.t_max } : null,
     uncertainty: energyIn(v.uncertainty, eu),
@@ -91,6 +102,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     replacedBy: v.replaced_by_step_id,
     balance,
     versions: d.versions,
+    currentNumber: d.step.current_version_number,
     changes,
     prevNumber: prevNumber ?? null,
     reviews: d.reviews,
@@ -109,6 +121,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   const db = getDb();
   const intent = String(form.get("intent") ?? "");
   try {
+    if (intent === "restore") {
+      // An earlier version back as a new one (policy "step.edit", checked in the data layer).
+      const r = await restoreStepVersion(db, user, id, Number(form.get("version")), Number(form.get("baseVersion")) || undefined);
+      return redirect(`/steps/${id}?restored=${r.version}`);
+    }
     if (intent === "comment") await addStepComment(db, user, id, { body: String(form.get("body") ?? "") });
     else if (intent === "propose") {
       await proposeStep(db, user, id, String(form.get("comment") ?? "") || undefined);
@@ -203,14 +220,12 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
           <dl className="mt-2 grid grid-cols-2 gap-1 text-sm">
             <dt>Form</dt>
             <dd>{{ dG: "ΔG‡ at T", dHdS: "ΔH‡ and ΔS‡", thermal: "Ea, ΔS‡, Δn‡", arrhenius: "Arrhenius A, Ea", measured: "measured k" }[b.form]}</dd>
-            {Object.entries(b)
-              .filter(([k]) => k !== "form")
-              .map(([k, v]) => (
-                <div key={k} className="contents">
-                  <dt className="font-mono text-xs">{k}</dt>
-                  <dd className="num">{typeof v === "object" ? JSON.stringify(v) : unitLabel(String(v))}</dd>
-                </div>
-              ))}
+            {barrierRows(b).map(([k, v]) => (
+              <div key={k} className="contents">
+                <dt>{k}</dt>
+                <dd className="num">{v}</dd>
+              </div>
+            ))}
             {d.content.kappa !== undefined && (
               <>
                 <dt>κ</dt>
@@ -229,6 +244,11 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
         </section>
         <section className="panel">
           <h2 className="font-semibold">Every form at 298.15 K (1 mol/L standard state)</h2>
+          {d.thermalNote && (
+            <p className="mt-1 text-xs text-brick-700" data-testid="thermal-reference-warning">
+              {d.thermalNote}
+            </p>
+          )}
           {d.derived ? (
             <dl className="mt-2 grid grid-cols-2 gap-1 text-sm">
               <dt>k</dt>
@@ -288,6 +308,7 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                   <td className="num">
                     {sig(r.k)} {r.unit}
                     {r.extrapolated ? " *" : ""}
+                    {r.farFromReference ? " †" : ""}
                   </td>
                 </tr>
               ))}
@@ -296,7 +317,8 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
           <KPlot points={d.kT} />
         </div>
         <p className="mt-2 text-xs text-ink-600">
-          * ΔG‡ held constant away from its reference temperature. Predictions are estimates: where k feeds a thermal-hazard or scale-up decision, calorimetry and the site's process-safety review decide, and local codes and licensed practice govern.
+          * ΔG‡ held constant away from its reference temperature.
+          {d.kT.some((r) => r.farFromReference) && " † More than 50 K from the reference temperature of Ea and ΔS‡ (thermal form): ΔH‡ and ΔS‡ taken as constant, an extrapolation."} Predictions are estimates: where k feeds a thermal-hazard or scale-up decision, calorimetry and the site's process-safety review decide, and local codes and licensed practice govern.
         </p>
       </section>
       <div className="grid gap-4 md:grid-cols-2">
@@ -343,6 +365,9 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                 v{v.number}
               </Link>{" "}
               <StatusBadge status={v.status} /> {v.message} — {v.author ?? "?"}, {new Date(v.created_at).toISOString().slice(0, 16).replace("T", " ")} UTC
+              {d.may.edit && v.number !== d.currentNumber && (
+                <RestoreVersionButton version={v.number} current={d.currentNumber} disabled={busy} label={`Restore version ${v.number} as version ${d.currentNumber + 1}`} />
+              )}
             </li>
           ))}
         </ul>
@@ -358,9 +383,9 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                 <tbody>
                   {d.changes.map((c) => (
                     <tr key={c.path}>
-                      <td className="pr-4 font-mono">{c.path}</td>
-                      <td className="num pr-4 text-brick-700">{String(c.old ?? "—")}</td>
-                      <td className="num text-moss-700">{String(c.new ?? "—")}</td>
+                      <td className="pr-4">{fieldText(c.path)}</td>
+                      <td className="num pr-4 text-brick-700">{fieldValueText(c.path, c.old)}</td>
+                      <td className="num text-moss-700">{fieldValueText(c.path, c.new)}</td>
                     </tr>
                   ))}
                 </tbody>

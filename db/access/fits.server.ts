@@ -70,6 +70,12 @@ export async function getFit(db: Knex, id: number): Promise<FitRecord | null> {
   return r ? toRecord(r) : null;
 }
 
+/** The mechanism snapshot a fit ran on (exchange format), for naming its species and steps. */
+export async function getFitSnapshot(db: Knex, id: number): Promise<unknown> {
+  const r = await db("fits").select("snapshot").where({ id }).first();
+  return r ? json(r.snapshot) : null;
+}
+
 export async function listFitsForDataset(db: Knex, datasetId: number, ownerId: number): Promise<{ id: number; createdAt: Date; steps: string[] }[]> {
   const rows = await db("fits as f")
     .join("fit_datasets as fd", "fd.fit_id", "f.id")

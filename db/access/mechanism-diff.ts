@@ -76,6 +76,8 @@ export interface MechanismDiff {
   nameChanged: { old: string; new: string } | null;
   species: { added: ResolvedSpecies[]; removed: ResolvedSpecies[] };
   steps: { added: StepSide[]; removed: StepSide[]; changed: StepChange[]; unchanged: number };
+  /** Species key → name, over both sides (for showing changed fields by name). */
+  speciesNames: Record<string, string>;
   reordered: boolean;
   identical: boolean;
 }
@@ -155,6 +157,7 @@ export function diffMechanisms(a: ResolvedMechanism, b: ResolvedMechanism, T = 2
     nameChanged,
     species: { added: speciesAdded, removed: speciesRemoved },
     steps: { added, removed, changed, unchanged },
+    speciesNames: Object.fromEntries([...a.species, ...b.species].map((s) => [s.key, s.label])),
     reordered,
     identical: !nameChanged && !reordered && added.length + removed.length + changed.length + speciesAdded.length + speciesRemoved.length === 0,
   };

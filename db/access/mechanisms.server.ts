@@ -37,6 +37,7 @@ import { diffMechanisms, type MechanismDiff, type ResolvedEntry, type ResolvedMe
 import { ConflictError, InputError, NotFoundError } from "./library-errors";
 import { audit } from "./audit.server";
 import { retryingTransaction } from "./transactions.server";
+import { reactionText } from "../../app/components/names";
 
 /** Largest import file accepted: 2 MB (2 097 152 bytes). */
 export const IMPORT_LIMIT_BYTES = 2_097_152;
@@ -212,10 +213,7 @@ export async function resolveSnapshot(db: Knex, name: string, snap: Snapshot): P
   }
   const keyOfId = new Map(snap.species.map((s) => [s.speciesId, s.key]));
   const labelOfKey = new Map(snap.species.map((s) => [s.key, s.label]));
-  const reaction = (d: DocumentStep) => {
-    const side = (ts: DocumentStep["reactants"]) => ts.map((t) => `${t.coef === 1 ? "" : t.coef + " "}${labelOfKey.get(t.species) ?? t.species}`).join(" + ");
-    return `${side(d.reactants)} ${d.reversible ? "⇌" : "→"} ${side(d.products)}`;
-  };
+  const reaction = (d: DocumentStep) => reactionText(d, (k) => labelOfKey.get(k) ?? k);
   const species: ResolvedSpecies[] = snap.species.map((s) => ({ key: s.key, speciesId: s.speciesId, label: s.label, formula: s.formula, charge: s.charge, phase: s.phase }));
   const steps: ResolvedEntry[] = snap.steps.map((e) => {
     if (e.kind === "library") {
@@ -351,6 +349,36 @@ export async function updateMechanism(db: Knex, actor: Actor, id: number, input:
     await writeVersion(trx, id, number, actor, body.message, body.name, snap);
     await audit(trx, { userId: actor.id, action: "mechanism.update", objectType: "mechanism", objectId: id, detail: { version: number } });
     return { version: number };
+  });
+}
+
+/**
+ * Restores an earlier version as a new one: its name, species and steps (library steps pinned to
+ * the same versions as then), with "Restored version N." as the message. Who may change the
+ * mechanism may restore it (policy "mechanism.write"). One transaction; a stale `baseVersion`
+ * throws ConflictError and nothing is written.
+ */
+export async function restoreMechanismVersion(db: Knex, actor: Actor, id: number, number: number, baseVersion?: number): Promise<{ version: number }> {
+  return retryingTransaction(db, async (trx) => {
+    const m = await lockMechanism(trx, id);
+    if (!can(actor, { do: "mechanism.read", object: owned(m) })) throw new NotFoundError("No such mechanism.");
+    assertCan(actor, { do: "mechanism.write", object: owned(m) }, "Only the owner can restore a version of this mechanism; fork it to make your own copy.");
+    if (baseVersion !== undefined && m.current_version !== baseVersion) {
+      const v = await getVersionSnapshot(trx, id, m.current_version);
+      throw new ConflictError(`This mechanism was saved as version ${v.row.number} by ${v.row.author ?? "someone"} ("${v.row.message}") after version ${baseVersion}; nothing was restored. Reload and choose again.`, {
+        version: v.row.number,
+        author: v.row.author ?? null,
+        message: v.row.message,
+        at: new Date(v.row.created_at).toISOString(),
+      });
+    }
+    if (number === m.current_version) throw new InputError(`Version ${number} is already the current version.`, { version: "Choose an earlier version." });
+    const { row, snapshot } = await getVersionSnapshot(trx, id, number);
+    const version = m.current_version + 1;
+    await trx("mechanisms").where({ id }).update({ name: row.name, current_version: version, updated_at: trx.fn.now(3) });
+    await writeVersion(trx, id, version, actor, `Restored version ${number}.`, row.name, snapshot);
+    await audit(trx, { userId: actor.id, action: "mechanism.restore", objectType: "mechanism", objectId: id, detail: { version, from: number } });
+    return { version };
   });
 }
 

@@ -304,6 +304,34 @@ export async function editStep(db: Knex, actor: Actor, stepId: number, input: un
   });
 }
 
+/**
+ * Restores an earlier version as a new one: the same content, barrier, provenance, species and
+ * tags, with "Restored version N." as its message; the status follows the rules of an edit (an
+ * author's restore goes back to draft, a curator's keeps the library status). Who may edit the
+ * step may restore it (policy "step.edit"). One transaction; a stale `baseVersion` throws
+ * ConflictError and nothing is written.
+ */
+export async function restoreStepVersion(db: Knex, actor: Actor, stepId: number, number: number, baseVersion?: number): Promise<{ versionId: number; version: number }> {
+  return db.transaction(async (trx) => {
+    const s = await lockStep(trx, stepId);
+    if (!can(actor, { do: "step.read", object: policyStep(s) })) throw new NotFoundError("No such step.");
+    assertCan(actor, { do: "step.edit", object: policyStep(s) }, "You may restore only your own steps (curators restore any).");
+    if (baseVersion !== undefined && s.current_version_number !== baseVersion) await latestConflict(trx, s, baseVersion);
+    if (number === s.current_version_number) throw new InputError(`Version ${number} is already the current version.`, { version: "Choose an earlier version." });
+    const src = await trx("step_versions").where({ step_id: stepId, number }).first();
+    if (!src) throw new NotFoundError(`The step has no version ${number}.`);
+    const from = hydrateVersion(src);
+    const curator = actor.role === "curator" || actor.role === "admin";
+    const status: StepStatus = curator ? s.status : "draft";
+    const version = s.current_version_number + 1;
+    const versionId = await insertVersion(trx, stepId, version, status, actor.id, `Restored version ${number}.`, { copyFrom: from });
+    await trx("step_tags").where({ step_id: stepId }).delete();
+    if (from.tags?.length) await trx("step_tags").insert([...new Set(from.tags)].map((tag) => ({ step_id: stepId, tag })));
+    await audit(trx, { userId: actor.id, action: "step.restore", objectType: "step", objectId: stepId, detail: { version, from: number, status } });
+    return { versionId, version };
+  });
+}
+
 async function currentVersion(trx: Knex, s: StepRow): Promise<StepVersionRow> {
   return hydrateVersion(await trx("step_versions").where({ id: s.current_version_id }).first());
 }

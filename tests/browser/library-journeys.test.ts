@@ -40,6 +40,39 @@ describe.skipIf(!hasApp())("library journeys in the browser", () => {
     await b.screenshot("library-mechanism-built");
   }, JOURNEY_MS);
 
+  it("guards the local step form: a species made on the spot, more than two reactants, balance and barrier warnings", async () => {
+    b = await openBrowser();
+    await signIn(b, "author2@saddlebook.test"); // not "author": the workbench tests open that user's newest mechanism
+    const { page } = b;
+    await page.goto(appUrl() + "/mechanisms");
+    await page.getByLabel("Name", { exact: true }).fill("Guarded local step (illustrative)");
+    await page.getByRole("button", { name: "Create" }).click();
+    await page.waitForURL(/\/mechanisms\/\d+$/);
+    // a species the registry does not have yet, created from the mechanism editor
+    const label = `acetaldehyde enol ${Date.now()}`;
+    await page.getByLabel("New species label").fill(label);
+    await page.getByLabel("New species formula").fill("C2H4O");
+    await page.getByRole("button", { name: "Create species" }).click();
+    await expect.poll(() => page.getByText(`Added ${label} (C2H4O).`).count(), { timeout: 10_000 }).toBe(1);
+    await expect.poll(() => page.getByRole("heading", { name: /^Species \(/ }).locator("..").innerText()).toContain(label);
+    // three reactants (no cap of two), one of them the new species
+    await page.getByRole("button", { name: "+ add reactant" }).click();
+    await page.getByRole("button", { name: "+ add reactant" }).click();
+    await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: `${label} (C2H4O)` });
+    await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+    await page.getByLabel("Reactant 3", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+    await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
+    // C2H4O + 2 C2H2O → C4H4O2 leaves C2H4O over: a warning, not a refusal
+    await expect.poll(() => page.getByTestId("local-balance").innerText()).toMatch(/^Not balanced \(products − reactants\): (?=.*C −2)(?=.*H −4)(?=.*O −1).*It can still be added/);
+    await page.getByLabel("Local step ΔG‡").fill("-5");
+    await expect.poll(() => page.getByTestId("local-caution").innerText()).toMatch(/^ΔG‡ is negative .*above k_BT\/h/);
+    await b.screenshot("mechanism-editor-guards");
+    await page.getByRole("button", { name: "Add local step" }).click();
+    await expect.poll(() => page.getByTestId("editor-step").count()).toBe(1);
+    expect(await page.getByTestId("editor-step").innerText()).toContain(`${label} + 2 ketene → diketene`);
+    expect(b.problems).toEqual([]);
+  }, JOURNEY_MS);
+
   it("forks a colleague's mechanism and sees the differences from the parent", async () => {
     b = await openBrowser();
     await signIn(b, "curator@saddlebook.test");

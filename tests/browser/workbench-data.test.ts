@@ -56,7 +56,7 @@ describe.skipIf(!hasApp())("measured data and fits in the browser", () => {
     await b.page.getByTestId("dataset-plot").waitFor();
 
     await b.page.getByLabel("Model run").selectOption(runId!);
-    await b.page.getByLabel("Fit step ab").check();
+    await b.page.getByLabel("Fit step A → B").check();
     await Promise.all([b.page.waitForURL(/fit=\d+/), b.page.click('button:has-text("Fit the ticked barriers")')]);
     const cell = b.page.getByTestId("fit-shift-ab");
     await cell.waitFor();

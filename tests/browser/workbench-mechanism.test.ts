@@ -6,7 +6,11 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { appUrl, hasApp, openBrowser, ownMechanismIds, type BrowserSession, signIn } from "../support/browser";
 
 
-const kOf = (text: string) => Number(text.trim().split(/\s+/)[0]);
+import { parseFormatted } from "../../app/components/format";
+
+const kOf = (text: string) => parseFormatted(text); // "7.092×10⁻⁴ L mol⁻¹ s⁻¹" → 7.092e-4
+/** What an internal key looks like: s<id> for a species, L<id> for a library step. */
+const KEY = /\b[sL]\d+\b/;
 
 describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
   let b: BrowserSession;
@@ -32,6 +36,10 @@ describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
     await b.page.getByLabel("Workbench temperature", { exact: true }).fill("60");
     await expect.poll(async () => kOf(await rows.first().locator("td").nth(1).innerText())).toBeGreaterThan(k25);
     expect(await b.page.getByTestId("energy-profile").count()).toBe(1);
+    // Steps and species by name in the rate table, the pathway choices and the profile.
+    expect((await b.page.getByTestId("rate-table").innerText()).match(KEY)).toBeNull();
+    expect((await b.page.locator("main").innerText()).match(KEY)).toBeNull();
+    expect((await b.page.getByTestId("energy-profile").textContent())!.match(KEY)).toBeNull();
     await b.screenshot("workbench-mechanism");
   });
 
@@ -41,6 +49,16 @@ describe.skipIf(!hasApp())("mechanism workbench in the browser", () => {
     await Promise.all([b.page.waitForURL(/\/runs\/\d+$/), b.page.getByRole("link", { name: "Open the results" }).click()]);
     await expect.poll(() => b.page.getByTestId("conc-plot").getAttribute("data-ready"), { timeout: 15_000 }).toBe("1");
     expect(await b.page.getByText(`mechanism ${mechanismId}`).count()).toBeGreaterThan(0);
+    // Species appear by name: the legend lists exactly the mechanism's species names, and no
+    // screen text is an internal key (s12 for a species, L2 for a pinned library step).
+    const doc = (await (await b.page.request.get(appUrl() + `/api/v1/mechanisms/${mechanismId}/export`)).json()) as { species: { id: string; label?: string }[] };
+    expect(doc.species.some((s) => KEY.test(s.id))).toBe(true); // the keys exist, so their absence below means something
+    const legend = await b.page.locator('[aria-label="Series"] label > span').allInnerTexts();
+    expect(legend.filter(Boolean).sort()).toEqual(doc.species.map((s) => s.label ?? s.id).sort());
+    const text = await b.page.locator("main").innerText();
+    expect(text.match(KEY)).toBeNull();
+    expect(await b.page.getByTestId("run-summary").innerText()).toContain(doc.species.find((s) => s.label)!.label!);
+    await b.screenshot("workbench-run-names");
   });
 
   it("saves a conditions preset with the mechanism", async () => {

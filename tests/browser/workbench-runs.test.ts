@@ -48,8 +48,12 @@ describe.skipIf(!hasApp())("runs in the browser", () => {
     expect(seconds(shown) / (Math.LN2 / k)).toBeCloseTo(1, 3);
     expect(await b.page.getByTestId("results-table").locator("tbody tr").count()).toBe(25);
     const [download] = await Promise.all([b.page.waitForEvent("download"), b.page.getByRole("button", { name: "Download CSV" }).click()]);
-    const csv = readFileSync((await download.path())!, "utf8").trim().split("\n");
-    expect(csv[0]).toBe("time_s,T_K,A (mol/L),B (mol/L)");
+    const file = readFileSync((await download.path())!, "utf8").trim().split("\n");
+    // Comment lines first (title, units, key from names to ids), then names with units.
+    expect(file[0]).toMatch(/^# Saddlebook run #\d+: browser 25 °C$/);
+    expect(file).toContain("# A (mol/L) = A (id A, formula C2H4O)");
+    const csv = file.filter((l) => !l.startsWith("#"));
+    expect(csv[0]).toBe("time (s),T (K),A (mol/L),B (mol/L)");
     expect(csv.length).toBe(401);
     const last = csv[csv.length - 1].split(",").map(Number);
     expect(last[0]).toBeCloseTo(50 * 3600, 6);

@@ -114,12 +114,17 @@ export async function buildThreeStepMechanism(page: Page, name: string, localLab
   await expect.poll(() => page.getByTestId("editor-step").count()).toBe(2);
   await page.getByLabel("Local step label").fill(localLabel);
   await page.getByLabel("Reactant 1", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
-  await page.getByLabel("Reactant 2", { exact: true }).selectOption({ label: "ketene (C2H2O)" });
+  await page.getByLabel("Reactant 1 coefficient", { exact: true }).fill("2");
   await page.getByLabel("Product 1", { exact: true }).selectOption({ label: "diketene (C4H4O2)" });
+  // 2 C2H2O → C4H4O2: the balance from the formulas is shown before the step is added
+  await expect.poll(() => page.getByTestId("local-balance").innerText()).toBe("Elements and charge balance.");
   await page.getByLabel("Local step ΔG‡").fill("18");
   await page.getByLabel("Local step energy unit").selectOption("kcal/mol");
   await page.getByRole("button", { name: "Add local step" }).click();
   await expect.poll(() => page.getByTestId("editor-step").count()).toBe(3);
+  // the form starts afresh for the next step
+  expect(await page.getByLabel("Local step label").inputValue()).toBe("");
+  expect(await page.getByLabel("Reactant 1", { exact: true }).inputValue()).toBe("");
   await page.getByLabel("What changed").fill("Two library steps and a local dimerisation");
   await page.getByRole("button", { name: /Save as version 2/ }).click();
   await page.waitForURL(/saved=2/);

@@ -115,8 +115,11 @@ describe("POST /api/v1/runs → poll → results", () => {
 
     const c = (await csv.loader(args(new Request(`http://localhost/api/v1/runs/${run.id}/results.csv`), { id: String(run.id) }))) as Response;
     expect(c.headers.get("content-type")).toMatch(/text\/csv/);
-    const lines = (await c.text()).trim().split("\n");
-    expect(lines[0]).toBe("time_s,T_K,A_mol_per_L,B_mol_per_L");
+    const all = (await c.text()).trim().split("\n");
+    // Names and units in the header (the fixture's species are named by their ids), the key in comments.
+    expect(all.filter((l) => l.startsWith("#"))).toContain("# A (mol/L) = A (id A, formula C2H4O)");
+    const lines = all.filter((l) => !l.startsWith("#"));
+    expect(lines[0]).toBe("time (s),T (K),A (mol/L),B (mol/L)");
     expect(lines.length).toBe(301);
   });
 

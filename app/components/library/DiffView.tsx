@@ -1,15 +1,11 @@
 /** A mechanism diff as tables: steps added, removed, changed (old → new, effect on k at T), species. */
 import type { MechanismDiff } from "../../../db/access/mechanism-diff";
 import { sig } from "./format";
-
-function show(v: unknown): string {
-  if (v === null || v === undefined) return "—";
-  if (typeof v === "number") return sig(v, 6);
-  return String(v);
-}
+import { fieldText, fieldValueText } from "../field-text";
 
 export function DiffView({ diff, fromLabel, toLabel }: { diff: MechanismDiff; fromLabel: string; toLabel: string }) {
   const { steps, species } = diff;
+  const nameOf = (k: string) => diff.speciesNames?.[k] ?? k;
   if (diff.identical) return <p className="text-sm text-ink-600">No differences between {fromLabel} and {toLabel}.</p>;
   return (
     <div className="space-y-4 text-sm" data-testid="diff">
@@ -69,9 +65,9 @@ export function DiffView({ diff, fromLabel, toLabel }: { diff: MechanismDiff; fr
                 <tbody>
                   {c.fields.map((f) => (
                     <tr key={f.path}>
-                      <td className="pr-4 font-mono">{f.path}</td>
-                      <td className="num pr-4 text-brick-700">{show(f.old)}</td>
-                      <td className="num text-moss-700">{show(f.new)}</td>
+                      <td className="pr-4">{fieldText(f.path)}</td>
+                      <td className="num pr-4 text-brick-700">{fieldValueText(f.path, f.old, nameOf)}</td>
+                      <td className="num text-moss-700">{fieldValueText(f.path, f.new, nameOf)}</td>
                     </tr>
                   ))}
                 </tbody>

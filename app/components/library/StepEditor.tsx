@@ -13,6 +13,9 @@ import { stepToEngine } from "../../../solver/exchange-format";
 import { convertBarrier } from "../../../solver/rates";
 import { ENERGY_CHOICES, ENTROPY_CHOICES, energyIn, entropyIn, sig, unitLabel } from "./format";
 import { SOURCE_TYPES } from "./step-schema";
+import { thermalReferenceWarning } from "../barrier-text";
+import { barrierWarning } from "../step-guards";
+import { useLeaveGuard } from "../LeaveGuard";
 
 export interface EditorSpecies {
   id: number;
@@ -41,6 +44,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
   const [T, setT] = useState(initial.tu === "C" ? "25" : "298.15");
   const [touched, setTouched] = useState(false);
   const busy = useNavigation().state === "submitting";
+  const leave = useLeaveGuard(JSON.stringify(f) !== JSON.stringify(initial));
   const set = <K extends keyof StepFormState>(k: K, v: StepFormState[K]) => setF((s) => ({ ...s, [k]: v }));
   const built = useMemo(() => buildStepInput(f), [f]);
   const errors = { ...(touched ? built.errors : {}), ...(serverErrors?.fields ?? {}) };
@@ -56,6 +60,9 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
     if (!c.ok) return { error: c.error.message };
     return { value: c.value, TK };
   }, [built.input, T, f.tu]);
+
+  const thermalNote = live && "value" in live && live.TK && built.input ? thermalReferenceWarning(built.input.barrier, live.TK) : null;
+  const barrierNote = live && "value" in live && live.value && live.TK ? barrierWarning({ dG: live.value.dG, kf: live.value.k, kfUnit: live.value.units }, live.TK) : null;
 
   const balance = useMemo(() => {
     const side = (ts: StepFormState["reactants"]) =>
@@ -130,12 +137,14 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
 
   return (
     <div className="grid gap-4 lg:grid-cols-3">
+      {leave.dialog}
       <Form
         method="post"
         className="space-y-4 lg:col-span-2"
         onSubmit={(e) => {
           setTouched(true);
           if (!built.input) e.preventDefault();
+          else leave.allowLeaving();
         }}
       >
         <CsrfInput />
@@ -180,7 +189,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 Barrier form
               </label>
               <select id="f-form" className="field" value={f.form} onChange={(e) => set("form", e.target.value as StepFormState["form"])}>
-                <option value="dG">ΔG‡ at T</option>
+                <option value="dG">ΔG‡ at a reference temperature</option>
                 <option value="dHdS">ΔH‡ and ΔS‡</option>
                 <option value="thermal">Ea, ΔS‡, Δn‡</option>
                 <option value="arrhenius">Arrhenius A, Ea</option>
@@ -225,7 +234,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
             {f.form === "dG" && (
               <>
                 {numField("dG", "ΔG‡", "barrier.dG", eu)}
-                {numField("Tref", "at T", "barrier.T", tUnit)}
+                {numField("Tref", "reference temperature of ΔG‡", "barrier.T", tUnit)}
                 {numField("dH", "ΔH‡ (optional)", "barrier.dH", eu)}
               </>
             )}
@@ -240,7 +249,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 {numField("Ea", "Ea", "barrier.Ea", eu)}
                 {numField("dS", "ΔS‡", "barrier.dS", su)}
                 {numField("dn", "Δn‡ (0, −1, −2)", "barrier.dn")}
-                {numField("Tref", "Ea determined at", "barrier.T", tUnit)}
+                {numField("Tref", "reference temperature of Ea and ΔS‡", "barrier.T", tUnit)}
               </>
             )}
             {f.form === "arrhenius" && (
@@ -248,13 +257,13 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 {numField("A", "A", "barrier.A", "(mol/L)^(1−m) s⁻¹")}
                 {numField("Ea", "Ea", "barrier.Ea", eu)}
                 {numField("n", "n (optional)", "barrier.n")}
-                {numField("Tref", "T₀ of (T/T₀)ⁿ", "barrier.T", tUnit)}
+                {numField("Tref", "reference temperature T₀ of (T/T₀)ⁿ", "barrier.T", tUnit)}
               </>
             )}
             {f.form === "measured" && (
               <>
                 {numField("k", "k", "barrier.k", "(mol/L)^(1−m) s⁻¹")}
-                {numField("Tref", "at T", "barrier.T", tUnit)}
+                {numField("Tref", "reference temperature (k measured at)", "barrier.T", tUnit)}
                 {numField("Ea", "Ea (optional)", "barrier.Ea", eu)}
               </>
             )}
@@ -323,7 +332,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
           <h2 className="font-semibold">Derived while you type</h2>
           <div className="mt-2 flex items-center gap-1">
             <label htmlFor="live-T" className="text-xs text-ink-600">
-              at T =
+              evaluate at T =
             </label>
             <input id="live-T" className="field num w-24" value={T} onChange={(e) => setT(e.target.value)} inputMode="decimal" />
             <span>{tUnit}</span>
@@ -357,6 +366,16 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 {sig(live.value.A)} {live.value.units}
               </dd>
             </dl>
+          )}
+          {barrierNote && (
+            <p className="mt-2 text-xs text-brick-700" role="status" data-testid="barrier-warning">
+              {barrierNote}
+            </p>
+          )}
+          {thermalNote && (
+            <p className="mt-2 text-xs text-brick-700" role="status" data-testid="thermal-reference-warning">
+              {thermalNote}
+            </p>
           )}
           {live && "value" in live && live.value && live.value.standardStateShift !== 0 && (
             <p className="mt-2 text-xs text-ink-600">Standard-state shift to 1 mol/L: {sig(energyIn(live.value.standardStateShift, eu))} {eu}.</p>

@@ -11,14 +11,17 @@ export async function editorSpecies(db: Knex): Promise<Array<{ id: number; label
   return db("species").select("id", "label", "formula").orderBy("label").limit(3000);
 }
 
+/** intent=species from a form: label and optional formula → the new species and a sentence saying so (throws InputError when refused). */
+export async function speciesFromForm(db: Knex, actor: Actor, form: FormData) {
+  const formula = String(form.get("formula") ?? "").trim();
+  const s = await createSpecies(db, actor, { label: String(form.get("label") ?? ""), ...(formula ? { formula } : {}) });
+  return { ok: true as const, message: `Added ${s.label}${s.formula ? ` (${s.formula})` : ""}.`, fields: {}, species: { id: s.id, label: s.label, formula: s.formula ?? null } };
+}
+
 /** intent=species adds a species (fetcher); intent=save creates a step or a new version and redirects to it. */
 export async function editorAction(db: Knex, actor: Actor, form: FormData, stepId: number | null) {
   try {
-    if (form.get("intent") === "species") {
-      const formula = String(form.get("formula") ?? "").trim();
-      const s = await createSpecies(db, actor, { label: String(form.get("label") ?? ""), ...(formula ? { formula } : {}) });
-      return { ok: true as const, message: `Added ${s.label}${s.formula ? ` (${s.formula})` : ""}.`, fields: {} };
-    }
+    if (form.get("intent") === "species") return await speciesFromForm(db, actor, form);
     const raw = String(form.get("payload") ?? "");
     let input: unknown;
     try {

@@ -5,13 +5,18 @@
  * server with the newer change shown, and the edits here stay in place.
  */
 import { useEffect, useMemo, useState } from "react";
-import { Form, useNavigation } from "react-router";
+import { Form, useFetcher, useNavigation } from "react-router";
 import { CsrfInput } from "../CsrfInput";
 import type { DocumentStep } from "../../../solver/exchange-format";
 import { rateAt } from "../../../db/access/mechanism-diff";
 import { sig } from "../library/format";
 import type { LibrarySearchHit } from "../library/search-hit";
-import { entryAsInput } from "../library/step-schema";
+import { entryAsInput, speciesKey } from "../library/step-schema";
+import { StepTermsEditor, emptyTerms, termsOf, type TermsDraft } from "../StepTermsEditor";
+import { termsBalance } from "../step-guards";
+import { stepNumbers } from "../workbench/step-rates";
+import { reactionText } from "../names";
+import { useLeaveGuard } from "../LeaveGuard";
 
 export interface EditorEntry {
   key: string;
@@ -56,7 +61,7 @@ export function MechanismEditor(p: Props) {
   const [hits, setHits] = useState<LibrarySearchHit[]>([]);
   const [searchNote, setSearchNote] = useState("");
   const busy = useNavigation().state === "submitting";
-  const labelOf = useMemo(() => new Map(p.allSpecies.map((s) => [`s${s.id}`, s.label])), [p.allSpecies]);
+  const byKey = useMemo(() => new Map(p.allSpecies.map((s) => [speciesKey(s.id), s])), [p.allSpecies]);
 
   useEffect(() => {
     const text = q.trim();
@@ -87,37 +92,56 @@ export function MechanismEditor(p: Props) {
     setEntries([...entries, { key: `L${h.id}`, kind: "library", stepVersionId: h.versionId, versionNumber: h.version, label: h.label, reaction: h.reaction }]);
   };
 
-  // New local step.
-  const [ls, setLs] = useState({ label: "", r1: "", r2: "", p1: "", p2: "", dG: "", unit: "kJ/mol", T: "298.15" });
+  // New local step: any number of reactants and products, balance and barrier checked as typed; the form starts afresh after each add.
+  const freshLocal = { label: "", dG: "", unit: "kJ/mol", T: "298.15", standardState: "1M" as "1M" | "1bar" | "1atm" };
+  const [ls, setLs] = useState(freshLocal);
+  const [terms, setTerms] = useState<TermsDraft>(emptyTerms);
   const [lsError, setLsError] = useState("");
+  const nameOfKey = (k: string) => byKey.get(k)?.label ?? species.find((s) => s.key === k)?.label ?? k;
+  const reactants = termsOf(terms.reactants);
+  const products = termsOf(terms.products);
+  const localBalance = termsBalance(reactants, products, (k) => byKey.get(k));
+  const dGValue = Number(ls.dG.replace(",", "."));
+  const TValue = Number(ls.T.replace(",", "."));
+  const localStep: DocumentStep | null =
+    reactants.length && products.length && ls.dG.trim() && Number.isFinite(dGValue) && TValue > 0
+      ? {
+          id: "local",
+          ...(ls.label.trim() ? { label: ls.label.trim() } : {}),
+          reactants,
+          products,
+          reversible: false,
+          barrier: { form: "dG", dG: dGValue, unit: ls.unit as "kJ/mol", T: TValue, standardState: ls.standardState },
+          provenance: { source: "estimated" },
+        }
+      : null;
+  const localCaution = localStep
+    ? stepNumbers({ format: "saddlebook.mechanism", version: 1, about: { name: "draft" }, species: [], steps: [localStep] }, TValue)[0]?.caution ?? null
+    : null;
   const addLocal = () => {
-    const dG = Number(ls.dG.replace(",", "."));
-    const T = Number(ls.T.replace(",", "."));
-    const reactants = [ls.r1, ls.r2].filter(Boolean);
-    const products = [ls.p1, ls.p2].filter(Boolean);
     if (!reactants.length || !products.length) return setLsError("Choose at least one reactant and one product.");
-    if (!ls.dG.trim() || !Number.isFinite(dG)) return setLsError("ΔG‡ must be a number.");
-    if (!(T > 0)) return setLsError("T must be above 0 K.");
-    const count = (ids: string[]) => Object.entries(ids.reduce<Record<string, number>>((m, id) => ((m[id] = (m[id] ?? 0) + 1), m), {})).map(([id, coef]) => ({ species: `s${id}`, coef }));
+    if ([...reactants, ...products].some((t) => !(t.coef > 0))) return setLsError("Coefficients must be positive numbers.");
+    if (!ls.dG.trim() || !Number.isFinite(dGValue)) return setLsError("ΔG‡ must be a number.");
+    if (!(TValue > 0)) return setLsError("T must be above 0 K.");
     let n = entries.length + 1;
     while (entries.some((e) => e.key === `local-${n}`)) n++;
     const key = `local-${n}`;
-    const step: DocumentStep = {
-      id: key,
-      ...(ls.label.trim() ? { label: ls.label.trim() } : {}),
-      reactants: count(reactants),
-      products: count(products),
-      reversible: false,
-      barrier: { form: "dG", dG, unit: ls.unit as "kJ/mol", T, standardState: "1M" },
-      provenance: { source: "estimated" },
-    };
-    const text = (ts: DocumentStep["reactants"]) => ts.map((t) => `${t.coef > 1 ? t.coef + " " : ""}${labelOf.get(t.species) ?? t.species}`).join(" + ");
-    setEntries([...entries, { key, kind: "local", label: ls.label.trim() || `${text(step.reactants)} → ${text(step.products)}`, reaction: `${text(step.reactants)} → ${text(step.products)}`, step }]);
-    const newSpecies = [...reactants, ...products].filter((id) => !species.some((s) => s.speciesId === Number(id)));
-    if (newSpecies.length) setSpecies([...species, ...[...new Set(newSpecies)].map((id) => ({ key: `s${id}`, speciesId: Number(id), label: labelOf.get(`s${id}`) ?? id, formula: null }))]);
-    setLs({ ...ls, label: "", dG: "" });
+    const step: DocumentStep = { ...localStep!, id: key };
+    const reaction = reactionText(step, nameOfKey);
+    setEntries([...entries, { key, kind: "local", label: ls.label.trim() || reaction, reaction, step }]);
+    const newKeys = [...new Set([...reactants, ...products].map((t) => t.species))].filter((k) => !species.some((s) => s.key === k));
+    if (newKeys.length) setSpecies([...species, ...newKeys.flatMap((k) => (byKey.has(k) ? [{ key: k, speciesId: byKey.get(k)!.id, label: byKey.get(k)!.label, formula: byKey.get(k)!.formula }] : []))]);
+    setLs(freshLocal);
+    setTerms(emptyTerms());
     setLsError("");
   };
+
+  // A species new to the registry, created from here (intent=species on the mechanism page) and added to the mechanism.
+  const speciesFetcher = useFetcher<{ ok: boolean; message: string; species?: { id: number; label: string; formula: string | null } }>();
+  const created = speciesFetcher.data?.ok ? speciesFetcher.data.species : undefined;
+  useEffect(() => {
+    if (created) setSpecies((list) => (list.some((x) => x.speciesId === created.id) ? list : [...list, { key: speciesKey(created.id), speciesId: created.id, label: created.label, formula: created.formula }]));
+  }, [created]);
 
   const move = (i: number, d: -1 | 1) => {
     const j = i + d;
@@ -128,6 +152,17 @@ export function MechanismEditor(p: Props) {
   };
 
   const [spPick, setSpPick] = useState("");
+  // Unsaved: any change to the mechanism, a typed change message, or a local step half typed.
+  const dirty =
+    name !== p.name ||
+    description !== p.description ||
+    visibility !== p.visibility ||
+    message.trim() !== "" ||
+    JSON.stringify(species.map((s) => s.key)) !== JSON.stringify(p.species.map((s) => s.key)) ||
+    JSON.stringify(entries) !== JSON.stringify(p.entries) ||
+    JSON.stringify(ls) !== JSON.stringify(freshLocal) ||
+    JSON.stringify(terms) !== JSON.stringify(emptyTerms());
+  const leave = useLeaveGuard(dirty);
   const payload = JSON.stringify({
     name,
     description: description || undefined,
@@ -137,15 +172,16 @@ export function MechanismEditor(p: Props) {
     message,
     baseVersion: p.baseVersion,
   });
-  const localSpeciesOptions = p.allSpecies.map((s) => (
-    <option key={s.id} value={s.id}>
-      {s.label}
-      {s.formula ? ` (${s.formula})` : ""}
+  const speciesChoices = p.allSpecies.map((s) => ({ value: speciesKey(s.id), text: `${s.label}${s.formula ? ` (${s.formula})` : ""}` }));
+  const localSpeciesOptions = speciesChoices.map((o) => (
+    <option key={o.value} value={o.value.slice(1)}>
+      {o.text}
     </option>
   ));
 
   return (
     <div className="space-y-4" data-testid="mechanism-editor">
+      {leave.dialog}
       {p.error && (
         <div className="rounded bg-brick-100 px-3 py-2 text-sm text-brick-700" role="alert">
           <p>{p.error.message}</p>
@@ -235,24 +271,30 @@ export function MechanismEditor(p: Props) {
         </section>
         <section className="panel text-sm">
           <h2 className="font-semibold">New local step</h2>
-          <div className="mt-2 grid grid-cols-2 gap-2">
-            <input className="field col-span-2" placeholder="Label (optional)" aria-label="Local step label" value={ls.label} onChange={(e) => setLs({ ...ls, label: e.target.value })} />
-            {(["r1", "r2", "p1", "p2"] as const).map((k) => (
-              <select key={k} className="field" aria-label={{ r1: "Reactant 1", r2: "Reactant 2", p1: "Product 1", p2: "Product 2" }[k]} value={ls[k]} onChange={(e) => setLs({ ...ls, [k]: e.target.value })}>
-                <option value="">{{ r1: "Reactant 1", r2: "Reactant 2 (optional)", p1: "Product 1", p2: "Product 2 (optional)" }[k]}</option>
-                {localSpeciesOptions}
-              </select>
-            ))}
-            <input className="field num" placeholder="ΔG‡" aria-label="Local step ΔG‡" inputMode="decimal" value={ls.dG} onChange={(e) => setLs({ ...ls, dG: e.target.value })} />
-            <div className="flex gap-1">
-              <select className="field" aria-label="Local step energy unit" value={ls.unit} onChange={(e) => setLs({ ...ls, unit: e.target.value })}>
+          <div className="mt-2 space-y-2">
+            <input className="field" placeholder="Label (optional)" aria-label="Local step label" value={ls.label} onChange={(e) => setLs({ ...ls, label: e.target.value })} />
+            <StepTermsEditor value={terms} onChange={setTerms} options={speciesChoices} label={(k, i) => `${k === "reactants" ? "Reactant" : "Product"} ${i + 1}`} balance={localBalance} />
+            <div className="flex flex-wrap gap-1">
+              <input className="field num w-24" placeholder="ΔG‡" aria-label="Local step ΔG‡" inputMode="decimal" value={ls.dG} onChange={(e) => setLs({ ...ls, dG: e.target.value })} />
+              <select className="field w-auto" aria-label="Local step energy unit" value={ls.unit} onChange={(e) => setLs({ ...ls, unit: e.target.value })}>
                 <option value="kJ/mol">kJ/mol</option>
                 <option value="kcal/mol">kcal/mol</option>
                 <option value="eV">eV</option>
               </select>
+              <span className="self-center">at</span>
               <input className="field num w-24" aria-label="Local step T in K" value={ls.T} onChange={(e) => setLs({ ...ls, T: e.target.value })} />
-              <span className="self-center">K</span>
+              <span className="self-center">K (reference temperature),</span>
+              <select className="field w-auto" aria-label="Local step standard state" value={ls.standardState} onChange={(e) => setLs({ ...ls, standardState: e.target.value as typeof ls.standardState })}>
+                <option value="1M">1 mol/L (solution)</option>
+                <option value="1bar">1 bar (gas)</option>
+                <option value="1atm">1 atm (gas)</option>
+              </select>
             </div>
+            {localCaution && (
+              <p className="text-xs text-brick-700" role="status" data-testid="local-caution">
+                {localCaution}
+              </p>
+            )}
           </div>
           {lsError && (
             <p className="mt-1 text-xs text-brick-700" role="alert">
@@ -268,6 +310,20 @@ export function MechanismEditor(p: Props) {
       <section className="panel text-sm">
         <h2 className="font-semibold">Species ({species.length})</h2>
         <p className="mt-1">{species.map((s) => s.label).join(" · ") || "None yet: steps bring their species with them."}</p>
+        <speciesFetcher.Form method="post" className="mt-2 flex flex-wrap gap-2" aria-label="New species">
+          <CsrfInput />
+          <input type="hidden" name="intent" value="species" />
+          <input name="label" className="field max-w-56" placeholder="New species, e.g. benzyl alcohol" aria-label="New species label" required maxLength={500} />
+          <input name="formula" className="field max-w-40" placeholder="Formula, e.g. C7H8O" aria-label="New species formula" maxLength={500} />
+          <button className="btn-quiet" disabled={speciesFetcher.state !== "idle"}>
+            Create species
+          </button>
+          {speciesFetcher.data && speciesFetcher.state === "idle" && (
+            <span className={`self-center text-xs ${speciesFetcher.data.ok ? "text-moss-700" : "text-brick-700"}`} role="status">
+              {speciesFetcher.data.message}
+            </span>
+          )}
+        </speciesFetcher.Form>
         <div className="mt-2 flex gap-2">
           <select className="field max-w-md" aria-label="Species to add" value={spPick} onChange={(e) => setSpPick(e.target.value)}>
             <option value="">— add a species —</option>
@@ -287,7 +343,7 @@ export function MechanismEditor(p: Props) {
         </div>
       </section>
 
-      <Form method="post" className="panel flex flex-wrap items-end gap-2">
+      <Form method="post" className="panel flex flex-wrap items-end gap-2" onSubmit={leave.allowLeaving}>
         <CsrfInput />
         <input type="hidden" name="intent" value="save" />
         <input type="hidden" name="payload" value={payload} />

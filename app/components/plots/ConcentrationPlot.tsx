@@ -12,11 +12,16 @@ import type uPlotType from "uplot";
 import "uplot/dist/uPlot.min.css";
 import { seriesColour } from "./palette";
 import { downloadBlob } from "./svg-export";
+import { formatNumber } from "../format";
 
 export interface PlotSeries {
   /** Unique key, e.g. "A" or "run12:A". */
   key: string;
+  /** Shown in the legend: the species' name, never its key. */
   label: string;
+  /** The species' id in the mechanism and its formula (for exports' keys). */
+  id?: string;
+  formula?: string;
   /** s */
   times: ArrayLike<number>;
   /** mol/L */
@@ -31,12 +36,8 @@ const CONC_UNITS = { "mol/L": 1, "mmol/L": 1e-3, "µmol/L": 1e-6 } as const;
 type TimeUnit = keyof typeof TIME_UNITS;
 type ConcUnit = keyof typeof CONC_UNITS;
 
-function fmt(v: number | null | undefined): string {
-  if (v == null || !Number.isFinite(v)) return "—";
-  const a = Math.abs(v);
-  if (a !== 0 && (a < 1e-3 || a >= 1e5)) return v.toExponential(3);
-  return Number(v.toPrecision(4)).toString();
-}
+/** Four significant figures in the one number format of every page. */
+const fmt = (v: number | null | undefined) => formatNumber(v, 4);
 
 export function ConcentrationPlot({
   series,

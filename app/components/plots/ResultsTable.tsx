@@ -6,10 +6,16 @@
 import { useMemo, useState } from "react";
 import { flexRender, getCoreRowModel, getPaginationRowModel, useReactTable, type ColumnDef } from "@tanstack/react-table";
 import { downloadBlob } from "./svg-export";
+import { resultsCsv } from "./results-csv";
+import { formatNumber } from "../format";
 
 export interface TableSeries {
   key: string;
+  /** The species' name (never its key in the mechanism). */
   label: string;
+  /** The species' id in the mechanism and its formula, for the CSV's key. */
+  id?: string;
+  formula?: string;
   /** s */
   times: ArrayLike<number>;
   /** mol/L */
@@ -18,12 +24,8 @@ export interface TableSeries {
 
 type Row = { t: number; T: number | null; v: (number | null)[] };
 
-function fmt(v: number | null | undefined): string {
-  if (v == null || !Number.isFinite(v)) return "";
-  const a = Math.abs(v);
-  if (a !== 0 && (a < 1e-3 || a >= 1e5)) return v.toExponential(4);
-  return Number(v.toPrecision(6)).toString();
-}
+/** Blank for a missing value; otherwise six significant figures in the one number format of every page (the CSV keeps full precision). */
+const fmt = (v: number | null | undefined) => (v == null || !Number.isFinite(v) ? "" : formatNumber(v, 6));
 
 /** Rows on the union of all series' times (exact matches; series sharing a grid line up). */
 export function mergeRows(series: TableSeries[], temperatures?: { times: ArrayLike<number>; values: ArrayLike<number> }): Row[] {
@@ -43,29 +45,35 @@ export function mergeRows(series: TableSeries[], temperatures?: { times: ArrayLi
   return [...map.values()].sort((a, b) => a.t - b.t);
 }
 
-export function rowsToCsv(series: TableSeries[], rows: Row[]): string {
-  const esc = (v: string) => (/[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
-  const head = ["time_s", "T_K", ...series.map((s) => esc(`${s.label} (mol/L)`))].join(",");
-  const lines = rows.map((r) => [r.t, r.T, ...r.v].map((x) => (x == null || !Number.isFinite(x) ? "" : String(x))).join(","));
-  return [head, ...lines].join("\n") + "\n";
+/** The table as CSV (results-csv.ts layout: names and units in the header, a key to ids). */
+export function rowsToCsv(series: TableSeries[], rows: Row[], title = "Saddlebook concentration–time values", withTemperature = true): string {
+  return resultsCsv({
+    title,
+    columns: series.map((s) => ({ name: s.label, unit: "mol/L", id: s.id, formula: s.formula })),
+    rows: rows.map((r) => [r.t, r.T, ...r.v]),
+    withTemperature,
+  });
 }
 
 export function ResultsTable({
   series,
   temperatures,
   filename = "saddlebook-results.csv",
+  title,
 }: {
   series: TableSeries[];
   temperatures?: { times: ArrayLike<number>; values: ArrayLike<number> };
   filename?: string;
+  /** First comment line of the CSV, e.g. "Saddlebook run #12: …". */
+  title?: string;
 }) {
   const rows = useMemo(() => mergeRows(series, temperatures), [series, temperatures]);
   const [pageSize, setPageSize] = useState(25);
   const columns = useMemo<ColumnDef<Row>[]>(
     () => [
-      { id: "t", header: "time / s", accessorFn: (r) => r.t, cell: (c) => fmt(c.getValue<number>()) },
-      { id: "T", header: "T / K", accessorFn: (r) => r.T, cell: (c) => fmt(c.getValue<number | null>()) },
-      ...series.map<ColumnDef<Row>>((s, j) => ({ id: `s${j}`, header: `${s.label} / mol L⁻¹`, accessorFn: (r) => r.v[j], cell: (c) => fmt(c.getValue<number | null>()) })),
+      { id: "t", header: "time (s)", accessorFn: (r) => r.t, cell: (c) => fmt(c.getValue<number>()) },
+      { id: "T", header: "T (K)", accessorFn: (r) => r.T, cell: (c) => fmt(c.getValue<number | null>()) },
+      ...series.map<ColumnDef<Row>>((s, j) => ({ id: `s${j}`, header: `${s.label} (mol/L)`, accessorFn: (r) => r.v[j], cell: (c) => fmt(c.getValue<number | null>()) })),
     ],
     [series],
   );
@@ -85,7 +93,7 @@ export function ResultsTable({
   return (
     <div className="space-y-2" data-testid="results-table">
       <div className="flex flex-wrap items-center gap-2 text-sm">
-        <button type="button" className="btn-quiet py-0.5" onClick={() => downloadBlob(new Blob([rowsToCsv(series, rows)], { type: "text/csv;charset=utf-8" }), filename)}>
+        <button type="button" className="btn-quiet py-0.5" onClick={() => downloadBlob(new Blob([rowsToCsv(series, rows, title, !!temperatures)], { type: "text/csv;charset=utf-8" }), filename)}>
           Download CSV
         </button>
         <span className="text-ink-500">{rows.length} rows</span>

@@ -1,3 +1,5 @@
+import { formatNumber } from "../format";
+
 /** "Nice" axis ticks (1, 2, 5 × 10^n steps) for linear axes, and decade ticks for log axes. */
 export function niceTicks(min: number, max: number, target = 6): number[] {
   if (!Number.isFinite(min) || !Number.isFinite(max)) return [];
@@ -25,10 +27,8 @@ export function padRange(min: number, max: number, frac = 0.06): [number, number
   return [min - p, max + p];
 }
 
-/** Compact tick label. */
+/** Compact tick label, in the one number format of every page. */
 export function tickLabel(v: number): string {
-  if (v === 0) return "0";
   const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(6)));
-  return v.toExponential(1).replace("e+", "e");
+  return formatNumber(v, a >= 1e-3 && a < 1e5 ? 6 : 2);
 }

@@ -215,17 +215,17 @@ export function ConditionsForm({
         <div className="max-h-64 space-y-1 overflow-auto pr-1">
           {Object.entries(draft.initial).map(([id, q]) => (
             <div key={id} className="grid grid-cols-[minmax(0,1fr)_7rem_6rem] items-center gap-2">
-              <span className="truncate text-sm" title={id}>
-                {labels?.[id] && labels[id] !== id ? `${labels[id]} (${id})` : id}
+              <span className="truncate text-sm" title={labels?.[id] ?? id}>
+                {labels?.[id] ?? id}
               </span>
               <input
-                aria-label={`Initial concentration of ${id}`}
+                aria-label={`Initial concentration of ${labels?.[id] ?? id}`}
                 className={cls(`initial.${id}`)}
                 value={q.value}
                 inputMode="decimal"
                 onChange={(e) => set("initial", { ...draft.initial, [id]: { ...q, value: e.target.value } })}
               />
-              <select aria-label={`Unit of ${id}`} className="field" value={q.unit} onChange={(e) => set("initial", { ...draft.initial, [id]: { ...q, unit: e.target.value as typeof q.unit } })}>
+              <select aria-label={`Unit of ${labels?.[id] ?? id}`} className="field" value={q.unit} onChange={(e) => set("initial", { ...draft.initial, [id]: { ...q, unit: e.target.value as typeof q.unit } })}>
                 <option value="mol/L">mol/L</option>
                 <option value="mmol/L">mmol/L</option>
                 <option value="umol/L">µmol/L</option>
@@ -275,7 +275,7 @@ export function ConditionsForm({
           {err("rtol")}
         </label>
         <label className="block">
-          <span className="label">atol / mol L⁻¹</span>
+          <span className="label">atol (mol/L)</span>
           <input className={cls("atol")} value={draft.atol} onChange={(e) => set("atol", e.target.value)} />
           {err("atol")}
         </label>

@@ -17,6 +17,11 @@ import { stepNumbers } from "./step-rates";
 import { num } from "./format";
 import { GraphEditFormSchema, firstIssue, type GraphEdit } from "./graph-edit-schema";
 import type { LibrarySearchHit } from "../library/search-hit";
+import { namesOf } from "../names";
+import { describeBarrier } from "../barrier-text";
+import { standardStateText } from "../units-text";
+import { StepTermsEditor, emptyTerms, termsOf, type TermsDraft } from "../StepTermsEditor";
+import { termsBalance } from "../step-guards";
 
 export interface EntryInfo {
   kind: "library" | "local";
@@ -35,26 +40,51 @@ const parseNum = (s: string) => (s.trim() === "" ? NaN : Number(s.trim().replace
 
 // ------------------------------------------------------------ barrier draft
 
+type StandardState = "1M" | "1bar" | "1atm";
+
 export interface BarrierDraft {
   form: "dG" | "dHdS" | "arrhenius";
   v1: string;
   v2: string;
   unit: EnergyUnit;
   T: string;
+  /** standard state of ΔG‡ or ΔH‡/ΔS‡: kept from the step being edited, shown and editable */
+  standardState: StandardState;
+  /** set when the step's barrier could not be edited in its own form and was converted: says what was converted to what */
+  rebased?: string;
 }
 
-function draftOf(b: DocumentBarrier | undefined, fallbackDG: number | null, T: number | null): BarrierDraft {
+export const freshBarrier = (): BarrierDraft => ({ form: "dG", v1: "", v2: "", unit: "kJ/mol", T: "298.15", standardState: "1M" });
+
+/**
+ * The panel's draft of a saved barrier: in its own form, units and standard state where the
+ * panel can edit that form; otherwise converted to ΔG‡ at the workbench temperature in 1 mol/L,
+ * with `rebased` saying so (never silently).
+ */
+export function draftOf(b: DocumentBarrier | undefined, fallbackDG: number | null, T: number | null): BarrierDraft {
   const unit = (b && "unit" in b && ENERGY_UNITS.includes(b.unit as EnergyUnit) ? b.unit : "kJ/mol") as EnergyUnit;
-  if (b?.form === "dG") return { form: "dG", v1: String(b.dG), v2: "", unit, T: String(b.T) };
-  if (b?.form === "dHdS" && b.entropyUnit === "J/(mol K)") return { form: "dHdS", v1: String(b.dH), v2: String(b.dS), unit, T: "" };
-  if (b?.form === "arrhenius" && b.rateUnit.concentration === "mol/L" && b.rateUnit.time === "s" && !b.n) return { form: "arrhenius", v1: String(b.A), v2: String(b.Ea), unit, T: "" };
-  // Other forms are edited as ΔG‡ at the workbench temperature (1 mol/L).
-  return { form: "dG", v1: fallbackDG === null ? "" : String(Number((fallbackDG / 1000).toPrecision(5))), v2: "", unit: "kJ/mol", T: T ? String(Number(T.toFixed(2))) : "298.15" };
+  const own = b && "unit" in b && b.unit === unit;
+  if (b?.form === "dG" && own) return { form: "dG", v1: String(b.dG), v2: "", unit, T: String(b.T), standardState: b.standardState };
+  if (b?.form === "dHdS" && own && b.entropyUnit === "J/(mol K)") return { form: "dHdS", v1: String(b.dH), v2: String(b.dS), unit, T: "", standardState: b.standardState };
+  if (b?.form === "arrhenius" && own && b.rateUnit.concentration === "mol/L" && b.rateUnit.time === "s" && !b.n) return { form: "arrhenius", v1: String(b.A), v2: String(b.Ea), unit, T: "", standardState: "1M" };
+  const Tw = T ? Number(T.toFixed(2)) : 298.15;
+  const v = fallbackDG === null ? "" : String(Number((fallbackDG / 1000).toPrecision(5)));
+  return {
+    form: "dG",
+    v1: v,
+    v2: "",
+    unit: "kJ/mol",
+    T: String(Tw),
+    standardState: "1M",
+    rebased: b
+      ? `Entered as ${describeBarrier(b)}. This panel cannot edit that form, so it shows the barrier converted to ΔG‡ at ${Tw} K in the 1 mol/L standard state${v ? ` (${v} kJ/mol)` : ""}; saving stores this converted form instead of the original, and its temperature dependence may differ.`
+      : undefined,
+  };
 }
 
-function barrierOf(d: BarrierDraft): DocumentBarrier {
-  if (d.form === "dG") return { form: "dG", dG: parseNum(d.v1), unit: d.unit, T: parseNum(d.T), standardState: "1M" };
-  if (d.form === "dHdS") return { form: "dHdS", dH: parseNum(d.v1), dS: parseNum(d.v2), unit: d.unit, entropyUnit: "J/(mol K)", standardState: "1M" };
+export function barrierOf(d: BarrierDraft): DocumentBarrier {
+  if (d.form === "dG") return { form: "dG", dG: parseNum(d.v1), unit: d.unit, T: parseNum(d.T), standardState: d.standardState };
+  if (d.form === "dHdS") return { form: "dHdS", dH: parseNum(d.v1), dS: parseNum(d.v2), unit: d.unit, entropyUnit: "J/(mol K)", standardState: d.standardState };
   return { form: "arrhenius", A: parseNum(d.v1), rateUnit: { concentration: "mol/L", time: "s" }, Ea: parseNum(d.v2), unit: d.unit };
 }
 
@@ -82,9 +112,19 @@ function BarrierFields({ d, onChange, prefix }: { d: BarrierDraft; onChange: (d:
         <span className="label">{labels[0]}</span>
         <input className="field num" aria-label={`${prefix} ${labels[0]}`} inputMode="decimal" value={d.v1} onChange={(e) => onChange({ ...d, v1: e.target.value })} />
       </label>
+      {d.form !== "arrhenius" && (
+        <label className="block">
+          <span className="label">Standard state</span>
+          <select className="field" aria-label={`${prefix} standard state`} value={d.standardState} onChange={(e) => onChange({ ...d, standardState: e.target.value as StandardState })}>
+            <option value="1M">1 mol/L (solution)</option>
+            <option value="1bar">1 bar (gas)</option>
+            <option value="1atm">1 atm (gas)</option>
+          </select>
+        </label>
+      )}
       {d.form === "dG" ? (
         <label className="block">
-          <span className="label">at T (K)</span>
+          <span className="label">reference temperature (K)</span>
           <input className="field num" aria-label={`${prefix} barrier T in K`} inputMode="decimal" value={d.T} onChange={(e) => onChange({ ...d, T: e.target.value })} />
         </label>
       ) : (
@@ -108,14 +148,39 @@ function LiveK({ doc, step, T }: { doc: MechanismDocument; step: DocumentStep | 
       at {num(T, 5)} K: k_fwd = {num(n.kf, 4)} {n.kfUnit}
       {n.dG !== null ? ` · ΔG‡ = ${num(n.dG / 1000, 4)} kJ/mol (1 mol/L)` : ""}
       {n.kr !== null ? ` · k_rev = ${num(n.kr, 4)} ${n.krUnit}` : ""} <span className="text-ink-500">(transition-state theory, Eyring relation)</span>
+      {n.caution && (
+        <span className="block text-brick-700" role="status" data-testid="live-caution">
+          {n.caution}
+        </span>
+      )}
     </p>
   );
 }
 
 // ------------------------------------------------------------ save form
 
-function SaveEdit({ edit, baseVersion, defaultMessage, label, validate }: { edit: GraphEdit | null; baseVersion: number; defaultMessage: string; label: string; validate?: () => string | null }) {
+function SaveEdit({
+  edit,
+  baseVersion,
+  defaultMessage,
+  label,
+  validate,
+  onSaved,
+}: {
+  edit: GraphEdit | null;
+  baseVersion: number;
+  defaultMessage: string;
+  label: string;
+  validate?: () => string | null;
+  /** called once for each save the server accepted */
+  onSaved?: () => void;
+}) {
   const fetcher = useFetcher<Answer>();
+  const savedVersion = fetcher.state === "idle" && fetcher.data?.ok ? fetcher.data.version : null;
+  useEffect(() => {
+    if (savedVersion !== null) onSaved?.();
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [savedVersion]);
   const mechanismId = useParams().id;
   const [message, setMessage] = useState(defaultMessage);
   const [error, setError] = useState("");
@@ -173,7 +238,27 @@ function SaveEdit({ edit, baseVersion, defaultMessage, label, validate }: { edit
 // ------------------------------------------------------------ add a step
 
 
-export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: MechanismDocument; allSpecies: Array<{ id: number; label: string; formula: string | null }>; baseVersion: number; T: number | null }) {
+/** Tells the page whether a form part holds unsaved input (for its leave guard); false again when it unmounts. */
+function useReportDirty(dirty: boolean, onDirty?: (dirty: boolean) => void) {
+  useEffect(() => {
+    onDirty?.(dirty);
+  }, [dirty, onDirty]);
+  useEffect(() => () => onDirty?.(false), [onDirty]);
+}
+
+export function AddStepControl({
+  doc,
+  allSpecies,
+  baseVersion,
+  T,
+  onDirty,
+}: {
+  doc: MechanismDocument;
+  allSpecies: Array<{ id: number; label: string; formula: string | null }>;
+  baseVersion: number;
+  T: number | null;
+  onDirty?: (dirty: boolean) => void;
+}) {
   const [open, setOpen] = useState(false);
   const [mode, setMode] = useState<"library" | "local">("library");
   const [q, setQ] = useState("");
@@ -189,19 +274,34 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
 
   // Species choices: the mechanism's own, then the registry's (new to the mechanism) as s<id>.
   const inDoc = new Set(doc.species.map((s) => s.id));
+  const names = namesOf(doc);
   const options = [
-    ...doc.species.map((s) => ({ value: s.id, text: s.label ?? s.id })),
+    ...doc.species.map((s) => ({ value: s.id, text: names.speciesWithFormula(s.id) })),
     ...allSpecies.filter((s) => !inDoc.has(`s${s.id}`)).map((s) => ({ value: `s${s.id}`, text: `${s.label}${s.formula ? ` (${s.formula})` : ""} — new to this mechanism` })),
   ];
-  const [ls, setLs] = useState({ label: "", r1: "", r2: "", p1: "", p2: "" });
-  const [barrier, setBarrier] = useState<BarrierDraft>({ form: "dG", v1: "", v2: "", unit: "kJ/mol", T: "298.15" });
+  const [localLabel, setLocalLabel] = useState("");
+  const [terms, setTerms] = useState<TermsDraft>(emptyTerms);
+  const [barrier, setBarrier] = useState<BarrierDraft>(freshBarrier);
   const localStep = useMemo<DocumentStep | null>(() => {
-    const count = (ids: string[]) => Object.entries(ids.filter(Boolean).reduce<Record<string, number>>((m, id) => ((m[id] = (m[id] ?? 0) + 1), m), {})).map(([species, coef]) => ({ species, coef }));
     let n = doc.steps.length + 1;
     while (doc.steps.some((s) => s.id === `local-${n}`)) n++;
-    return { id: `local-${n}`, ...(ls.label.trim() ? { label: ls.label.trim() } : {}), reactants: count([ls.r1, ls.r2]), products: count([ls.p1, ls.p2]), reversible: false, barrier: barrierOf(barrier), provenance: { source: "estimated" } };
-  }, [doc.steps, ls, barrier]);
+    return { id: `local-${n}`, ...(localLabel.trim() ? { label: localLabel.trim() } : {}), reactants: termsOf(terms.reactants), products: termsOf(terms.products), reversible: false, barrier: barrierOf(barrier), provenance: { source: "estimated" } };
+  }, [doc.steps, localLabel, terms, barrier]);
   const localValid = localStep && StepSchema.safeParse(localStep).success ? localStep : null;
+  // Balance from formulas: the mechanism's species, then the registry's.
+  const formulaOf = useMemo(() => {
+    const m = new Map<string, { label: string; formula: string | null | undefined }>();
+    for (const s of allSpecies) m.set(`s${s.id}`, { label: s.label, formula: s.formula });
+    for (const s of doc.species) m.set(s.id, { label: s.label ?? s.id, formula: s.formula });
+    return m;
+  }, [doc.species, allSpecies]);
+  const localBalance = localStep ? termsBalance(localStep.reactants, localStep.products, (k) => formulaOf.get(k)) : null;
+  useReportDirty(localLabel.trim() !== "" || JSON.stringify(terms) !== JSON.stringify(emptyTerms()) || JSON.stringify(barrier) !== JSON.stringify(freshBarrier()), onDirty);
+  const resetLocal = () => {
+    setLocalLabel("");
+    setTerms(emptyTerms());
+    setBarrier(freshBarrier());
+  };
 
   if (!open)
     return (
@@ -250,19 +350,8 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
         </div>
       ) : (
         <div className="mt-2 space-y-2">
-          <input className="field" aria-label="New step label" placeholder="Label (optional)" value={ls.label} onChange={(e) => setLs({ ...ls, label: e.target.value })} />
-          <div className="grid grid-cols-2 gap-2">
-            {(["r1", "r2", "p1", "p2"] as const).map((k) => (
-              <select key={k} className="field" aria-label={{ r1: "New step reactant 1", r2: "New step reactant 2", p1: "New step product 1", p2: "New step product 2" }[k]} value={ls[k]} onChange={(e) => setLs({ ...ls, [k]: e.target.value })}>
-                <option value="">{{ r1: "Reactant 1", r2: "Reactant 2 (optional)", p1: "Product 1", p2: "Product 2 (optional)" }[k]}</option>
-                {options.map((o) => (
-                  <option key={o.value} value={o.value}>
-                    {o.text}
-                  </option>
-                ))}
-              </select>
-            ))}
-          </div>
+          <input className="field" aria-label="New step label" placeholder="Label (optional)" value={localLabel} onChange={(e) => setLocalLabel(e.target.value)} />
+          <StepTermsEditor value={terms} onChange={setTerms} options={options} label={(k, i) => `New step ${k === "reactants" ? "reactant" : "product"} ${i + 1}`} balance={localBalance} />
           <BarrierFields d={barrier} onChange={setBarrier} prefix="New step" />
           <LiveK doc={doc} step={localValid} T={T} />
           <SaveEdit
@@ -270,7 +359,8 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
             baseVersion={baseVersion}
             defaultMessage="Added a local step from the graph."
             label="Add step"
-            validate={() => (!ls.r1 || !ls.p1 ? "Choose at least one reactant and one product." : null)}
+            validate={() => (!localStep?.reactants.length || !localStep.products.length ? "Choose at least one reactant and one product." : null)}
+            onSaved={resetLocal}
           />
         </div>
       )}
@@ -280,7 +370,23 @@ export function AddStepControl({ doc, allSpecies, baseVersion, T }: { doc: Mecha
 
 // ------------------------------------------------------------ side panel
 
-export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id: string; doc: MechanismDocument; entry: EntryInfo; T: number | null; baseVersion: number; onClose: () => void }) {
+export function StepEditPanel({
+  id,
+  doc,
+  entry,
+  T,
+  baseVersion,
+  onClose,
+  onDirty,
+}: {
+  id: string;
+  doc: MechanismDocument;
+  entry: EntryInfo;
+  T: number | null;
+  baseVersion: number;
+  onClose: () => void;
+  onDirty?: (dirty: boolean) => void;
+}) {
   const st = doc.steps.find((s) => s.id === id);
   const here = useMemo(() => (st && T ? stepNumbers({ ...doc, steps: [st] }, T)[0] : null), [doc, st, T]);
   const [editing, setEditing] = useState(entry.kind === "local");
@@ -294,14 +400,17 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
     if (!st) return null;
     const { reactionThermo: _old, ...rest } = st;
     let rt = thermo;
-    if (rxn.trim() !== "") rt = { form: "dG", dG: parseNum(rxn), unit: rxnUnit, T: parseNum(rxnT), standardState: "1M" };
+    if (rxn.trim() !== "") rt = { form: "dG", dG: parseNum(rxn), unit: rxnUnit, T: parseNum(rxnT), standardState: thermo?.standardState ?? "1M" };
     else if (thermo?.form === "dG") rt = undefined;
     return { ...rest, barrier: barrierOf(barrier), reversible, ...(rt ? { reactionThermo: rt } : {}) };
   }, [st, thermo, barrier, reversible, rxn, rxnUnit, rxnT]);
   const valid = draft && StepSchema.safeParse(draft).success ? draft : null;
+  // Unsaved: anything changed since the panel opened (it opens afresh on each saved version).
+  const [opened] = useState(() => JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }));
+  useReportDirty(JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }) !== opened, onDirty);
   if (!st) return null;
-  const side = (t: { species: string; coef: number }[]) => t.map((x) => `${x.coef > 1 ? x.coef + " " : ""}${doc.species.find((s) => s.id === x.species)?.label ?? x.species}`).join(" + ");
-  const name = st.label ?? st.id;
+  const names = namesOf(doc);
+  const name = names.step(id);
   return (
     <aside className="mt-3 space-y-2 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Edit step" data-testid="step-edit-panel">
       <div className="flex items-center">
@@ -311,7 +420,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
         </button>
       </div>
       <p className="num">
-        {side(st.reactants)} {st.reversible ? "⇌" : "→"} {side(st.products)}
+        {names.reaction(id)}
       </p>
       {here && here.kf !== null && (
         <p className="num text-xs text-ink-700">
@@ -345,13 +454,23 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
       {editing && (
         <div className="space-y-2">
           {entry.kind === "library" && <p className="text-xs text-ink-600">Saving turns this entry into a local step that records library version {entry.versionNumber} as its origin.</p>}
+          {barrier.rebased && (
+            <p className="rounded bg-amber-note px-2 py-1 text-xs" role="status" data-testid="barrier-rebased">
+              {barrier.rebased}
+            </p>
+          )}
+          {st.barrier.form !== "arrhenius" && st.barrier.form !== "measured" && barrier.form !== "arrhenius" && !barrier.rebased && st.barrier.standardState !== barrier.standardState && (
+            <p className="text-xs text-brick-700" role="status" data-testid="standard-state-changed">
+              Standard state changed from {standardStateText(st.barrier.standardState)} to {standardStateText(barrier.standardState)}: the same number now means a different barrier for a step of more than one molecule.
+            </p>
+          )}
           <BarrierFields d={barrier} onChange={setBarrier} prefix="Step" />
           <label className="inline-flex items-center gap-2">
-            <input type="checkbox" checked={reversible} onChange={(e) => setReversible(e.target.checked)} aria-label="Reversible" /> Reversible (reverse k by detailed balance)
+            <input type="checkbox" checked={reversible} onChange={(e) => setReversible(e.target.checked)} aria-label="Reversible" /> Reversible (k_rev by detailed balance)
           </label>
           <div className="grid grid-cols-3 gap-2">
             <label className="block">
-              <span className="label">ΔG°rxn</span>
+              <span className="label">ΔG°rxn ({standardStateText(thermo?.standardState ?? "1M")})</span>
               <input className="field num" aria-label="Reaction free energy" inputMode="decimal" value={rxn} onChange={(e) => setRxn(e.target.value)} placeholder={thermo?.form === "dHdS" ? "kept (ΔH, ΔS)" : ""} />
             </label>
             <label className="block">
@@ -363,7 +482,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
               </select>
             </label>
             <label className="block">
-              <span className="label">at T (K)</span>
+              <span className="label">reference temperature (K)</span>
               <input className="field num" aria-label="Reaction free energy T in K" inputMode="decimal" value={rxnT} onChange={(e) => setRxnT(e.target.value)} />
             </label>
           </div>

@@ -13,6 +13,7 @@ import dagre from "@dagrejs/dagre";
 import type { MechanismDocument } from "../../../solver/exchange-format";
 import type { StepNumbers } from "./step-rates";
 import { num } from "./format";
+import { namesOf } from "../names";
 
 export type Positions = Record<string, { x: number; y: number }>;
 
@@ -88,23 +89,24 @@ export function MechanismGraph({
   const [mounted, setMounted] = useState(false);
   useEffect(() => setMounted(true), []);
   const byId = useMemo(() => new Map(numbers.map((n) => [n.id, n])), [numbers]);
+  const names = useMemo(() => namesOf(doc), [doc]);
   const initial = useMemo(() => autoLayout(doc, saved), [doc, saved]);
   const [positions, setPositions] = useState<Positions>(initial);
   useEffect(() => setPositions(initial), [initial]);
 
   const nodes = useMemo<Node[]>(() => {
-    const out: Node[] = doc.species.map((s) => ({ id: `s:${s.id}`, type: "species", position: positions[`s:${s.id}`] ?? { x: 0, y: 0 }, data: { label: s.label ?? s.id, formula: s.formula } }));
+    const out: Node[] = doc.species.map((s) => ({ id: `s:${s.id}`, type: "species", position: positions[`s:${s.id}`] ?? { x: 0, y: 0 }, data: { label: s.label || s.id, formula: s.formula } }));
     for (const st of doc.steps) {
       const n = byId.get(st.id);
       out.push({
         id: `r:${st.id}`,
         type: "step",
         position: positions[`r:${st.id}`] ?? { x: 0, y: 0 },
-        data: { label: st.label ?? st.id, reversible: st.reversible, dG: n?.dG ?? null, k: n?.kf ?? null, kUnit: n?.kfUnit ?? "", selected: selected === st.id },
+        data: { label: names.step(st.id), reversible: st.reversible, dG: n?.dG ?? null, k: n?.kf ?? null, kUnit: n?.kfUnit ?? "", selected: selected === st.id },
       });
     }
     return out;
-  }, [doc, byId, positions, selected]);
+  }, [doc, byId, positions, selected, names]);
 
   const edges = useMemo<Edge[]>(() => {
     const out: Edge[] = [];

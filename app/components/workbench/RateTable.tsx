@@ -10,10 +10,10 @@ export function RateTable({ numbers, onSelect }: { numbers: StepNumbers[]; onSel
   const [sorting, setSorting] = useState<SortingState>([]);
   const columns = useMemo<ColumnDef<StepNumbers>[]>(
     () => [
-      { id: "step", header: "Step", accessorFn: (r) => r.label, cell: (c) => <button type="button" className="text-left underline decoration-ink-200" onClick={() => onSelect?.(c.row.original.id)}>{c.row.original.reversible ? "⇌ " : "→ "}{c.getValue<string>()}</button> },
+      { id: "step", header: "Step", accessorFn: (r) => r.label, cell: (c) => <button type="button" className="text-left underline decoration-ink-200" onClick={() => onSelect?.(c.row.original.id)}>{c.getValue<string>()}{c.row.original.reaction !== c.getValue<string>() && <span className="ml-1 text-xs text-ink-500">{c.row.original.reaction}</span>}</button> },
       { id: "kf", header: "k_fwd", accessorFn: (r) => r.kf, cell: (c) => <span className="num">{num(c.getValue<number | null>())} {c.row.original.kfUnit}</span> },
       { id: "kr", header: "k_rev", accessorFn: (r) => r.kr, cell: (c) => <span className="num">{c.row.original.kr === null ? (c.row.original.reversible ? "needs ΔG°rxn" : "—") : `${num(c.row.original.kr)} ${c.row.original.krUnit}`}</span> },
-      { id: "dG", header: "ΔG‡ / kJ mol⁻¹", accessorFn: (r) => r.dG, cell: (c) => <span className="num">{c.getValue<number | null>() === null ? "—" : num(c.getValue<number>() / 1000, 4)}</span> },
+      { id: "dG", header: "ΔG‡ (kJ/mol)", accessorFn: (r) => r.dG, cell: (c) => <span className="num">{c.getValue<number | null>() === null ? "—" : num(c.getValue<number>() / 1000, 4)}</span> },
       { id: "t12", header: "t½ (unimolecular)", accessorFn: (r) => r.halfLife, cell: (c) => <span className="num">{c.row.original.molecularity === 1 ? duration(c.getValue<number | null>()) : "—"}</span> },
       { id: "form", header: "Barrier entered as", accessorFn: (r) => FORM_LABEL[r.form] ?? r.form, cell: (c) => <span>{c.getValue<string>()}{c.row.original.extrapolated ? " (outside its T range)" : ""}</span> },
     ],
@@ -47,13 +47,15 @@ export function RateTable({ numbers, onSelect }: { numbers: StepNumbers[]; onSel
           ))}
         </tbody>
       </table>
-      {numbers.some((n) => n.problem) && (
-        <ul className="mt-2 text-xs text-brick-700">
-          {numbers.filter((n) => n.problem).map((n) => (
-            <li key={n.id}>
-              {n.label}: {n.problem}
-            </li>
-          ))}
+      {numbers.some((n) => n.problem || n.caution) && (
+        <ul className="mt-2 text-xs text-brick-700" data-testid="rate-table-notes">
+          {numbers
+            .filter((n) => n.problem || n.caution)
+            .map((n) => (
+              <li key={n.id}>
+                {n.label}: {[n.problem, n.caution].filter(Boolean).join(" ")}
+              </li>
+            ))}
         </ul>
       )}
     </div>

@@ -1,6 +1,8 @@
 /** The analysis summary of a finished run: conversion times, yields, selectivity, rate control, mass balance, solver statistics. */
 import type { RunAnalysis, RunStatistics } from "~/compute/run-task";
 import { duration, num, pct } from "./format";
+import type { Names } from "../names";
+import { StepName } from "../StepName";
 
 /** How each integrator is named on the summary (solver/simulate.ts SimulationMethod). */
 const INTEGRATOR_LABEL: Record<string, string> = {
@@ -9,7 +11,8 @@ const INTEGRATOR_LABEL: Record<string, string> = {
   nonstiff: "non-stiff (explicit extrapolation)",
 };
 
-export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis: RunAnalysis; statistics: RunStatistics; warnings: string[] | null }) {
+/** Species and steps appear by `names` (from the run's snapshot), never by their keys. */
+export function RunSummary({ analysis: a, statistics: s, warnings, names }: { analysis: RunAnalysis; statistics: RunStatistics; warnings: string[] | null; names: Names }) {
   const present = Object.entries(a.species).filter(([, v]) => v.initial > 0);
   const drc = a.rateControl ? Object.entries(a.rateControl.degree).sort((x, y) => Math.abs(y[1]) - Math.abs(x[1])) : [];
   return (
@@ -20,7 +23,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
           <thead className="text-left text-xs text-ink-500">
             <tr>
               <th className="py-1">Species</th>
-              <th>c₀ / mol L⁻¹</th>
+              <th>c₀ (mol/L)</th>
               <th>converted</th>
               <th>t½ (50 %)</th>
               <th>90 %</th>
@@ -30,7 +33,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
           <tbody>
             {present.map(([id, v]) => (
               <tr key={id} className="border-t border-ink-100">
-                <td className="py-1">{id}</td>
+                <td className="py-1">{names.speciesWithFormula(id)}</td>
                 <td className="num">{num(v.initial)}</td>
                 <td className="num">{pct(v.conversion)}</td>
                 <td className="num" data-testid={`t50-${id}`}>{duration(v.t50)}</td>
@@ -50,7 +53,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
         {a.yields && a.reactant ? (
           <>
             <p className="mt-1 text-sm">
-              From <strong>{a.reactant}</strong> at {duration(a.yields.time)}: conversion {pct(a.yields.conversion)}.
+              From <strong>{names.species(a.reactant)}</strong> at {duration(a.yields.time)}: conversion {pct(a.yields.conversion)}.
             </p>
             <table className="mt-2 w-full text-sm">
               <thead className="text-left text-xs text-ink-500">
@@ -58,13 +61,13 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
                   <th className="py-1">Product</th>
                   <th>yield</th>
                   <th>selectivity</th>
-                  <th>max c / mol L⁻¹</th>
+                  <th>max c (mol/L)</th>
                 </tr>
               </thead>
               <tbody>
                 {a.products.map((p) => (
                   <tr key={p} className="border-t border-ink-100">
-                    <td className="py-1">{p}</td>
+                    <td className="py-1">{names.speciesWithFormula(p)}</td>
                     <td className="num">{pct(a.yields!.yields[p])}</td>
                     <td className="num">{pct(a.yields!.selectivity[p])}</td>
                     <td className="num">{num(a.species[p]?.max)}</td>
@@ -73,7 +76,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
               </tbody>
             </table>
             <p className="mt-1 text-xs text-ink-500">
-              yield = Δc(product)/c₀({a.reactant}); selectivity = share among the listed products; unaccounted (intermediates, others): {pct(a.yields.unaccounted)}.
+              yield = Δc(product)/c₀({names.species(a.reactant)}); selectivity = share among the listed products; unaccounted (intermediates, others): {pct(a.yields.unaccounted)}.
             </p>
           </>
         ) : (
@@ -86,14 +89,16 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
         {a.rateControl ? (
           <>
             <p className="mt-1 text-sm">
-              Formation of <strong>{a.rateControl.species}</strong> at {duration(a.rateControl.time)}; rate {num(a.rateControl.rate)} mol L⁻¹ s⁻¹. Largest:{" "}
-              <strong>{a.rateControl.rateDetermining}</strong>.
+              Formation of <strong>{names.species(a.rateControl.species)}</strong> at {duration(a.rateControl.time)}; rate {num(a.rateControl.rate)} mol L⁻¹ s⁻¹. Largest:{" "}
+              <strong>{names.step(a.rateControl.rateDetermining)}</strong>.
             </p>
             <table className="mt-2 w-full text-sm" data-testid="drc-table">
               <tbody>
                 {drc.slice(0, 12).map(([id, x]) => (
                   <tr key={id} className="border-t border-ink-100">
-                    <td className="py-0.5">{id}</td>
+                    <td className="py-0.5">
+                      <StepName names={names} id={id} />
+                    </td>
                     <td className="num">{num(x, 3)}</td>
                     <td className="w-1/2">
                       <div className="h-2 rounded bg-copper-500" style={{ width: `${Math.min(100, Math.abs(x) * 100)}%`, opacity: x < 0 ? 0.45 : 1 }} />
@@ -105,7 +110,7 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
             <p className="mt-1 text-xs text-ink-500">X_RC,i = ∂ln r/∂ln k_i with K_eq held (Campbell); Σ = {num(a.rateControl.sum, 3)} (1 at a steady state).</p>
           </>
         ) : (
-          <p className="mt-1 text-sm text-ink-600">{a.rateControlNote ?? "Not computed."}</p>
+          <p className="mt-1 text-sm text-ink-600">{a.rateControlNote ? names.text(a.rateControlNote) : "Not computed."}</p>
         )}
       </section>
 
@@ -137,12 +142,12 @@ export function RunSummary({ analysis: a, statistics: s, warnings }: { analysis:
           </dd>
         </dl>
         {a.massBalance && a.massBalance.speciesWithoutFormula.length > 0 && (
-          <p className="mt-1 text-xs text-ink-500">No formula (left out of element totals): {a.massBalance.speciesWithoutFormula.slice(0, 10).join(", ")}.</p>
+          <p className="mt-1 text-xs text-ink-500">No formula (left out of element totals): {a.massBalance.speciesWithoutFormula.slice(0, 10).map(names.species).join(", ")}.</p>
         )}
         {warnings && warnings.length > 0 && (
           <ul className="mt-2 list-disc pl-5 text-xs text-brick-700">
             {warnings.map((w, i) => (
-              <li key={i}>{w}</li>
+              <li key={i}>{names.text(w)}</li>
             ))}
           </ul>
         )}

@@ -10,6 +10,7 @@
 import { z } from "zod";
 import { arrheniusRegression, eyringRegression, type ArrheniusResult, type EyringResult, type RatePoint } from "../../../solver/regression";
 import { rateConstantToSI } from "../../../solver/units";
+import { formatNumber } from "../format";
 
 export const ZERO_CELSIUS = 273.15; // K, exact by definition of the Celsius scale
 
@@ -183,8 +184,8 @@ export function analyseKinetics(table: ParsedTable, s: KineticsSettings): Analys
   return { ok: true, value: { rows, eyring: e, arrhenius: ar.value, Tref, kUnitSI: K_UNITS[s.molecularity - 1], dGAt } };
 }
 
-/** Rounds to n significant digits for display (the stored numbers keep full precision). */
-export function sig(v: number, n = 4): string {
+/** Rounds to n significant digits as a plain number a form field reads back ("1.2e-5", not "1.2×10⁻⁵"); screens use ../format.ts. */
+export function fieldValue(v: number, n = 4): string {
   if (!Number.isFinite(v)) return "—";
   if (v === 0) return "0";
   const a = Math.abs(v);
@@ -197,8 +198,8 @@ export function plusMinus(value: number, se: number, scale = 1): string {
   const v = value * scale;
   const s = Math.abs(se * scale);
   if (!Number.isFinite(v) || !Number.isFinite(s)) return "—";
-  if (s === 0) return `${sig(v, 6)} ± 0`;
+  if (s === 0) return `${formatNumber(v, 6)} ± 0`;
   const decimals = Math.max(0, 1 - Math.floor(Math.log10(s)));
-  if (decimals > 8 || Math.abs(v) >= 1e7) return `${v.toExponential(3)} ± ${s.toExponential(1)}`;
+  if (decimals > 8 || Math.abs(v) >= 1e7) return `${formatNumber(v, 4)} ± ${formatNumber(s, 2)}`;
   return `${v.toFixed(decimals)} ± ${s.toFixed(decimals)}`;
 }

@@ -1,11 +1,7 @@
-/** Display helpers for numbers with units on workbench screens. */
-export function num(v: number | null | undefined, digits = 4): string {
-  if (v == null || !Number.isFinite(v)) return "—";
-  const a = Math.abs(v);
-  if (a === 0) return "0";
-  if (a < 1e-3 || a >= 1e6) return v.toExponential(digits - 1).replace("e+", "e");
-  return Number(v.toPrecision(digits)).toString();
-}
+/** Display helpers for numbers with units on workbench screens, in the one number format of every page (../format.ts). */
+import { formatNumber } from "../format";
+
+export const num = formatNumber;
 
 /** A duration in s shown in the largest unit that keeps it ≥ 1 (s, min, h, d). */
 export function duration(s: number | null | undefined): string {

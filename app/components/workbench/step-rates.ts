@@ -7,10 +7,16 @@
  */
 import { stepToEngine, type MechanismDocument } from "../../../solver/exchange-format";
 import { convertBarrier, reverseRateConstant } from "../../../solver/index";
+import { namesOf } from "../names";
+import { thermalReferenceWarning } from "../barrier-text";
+import { barrierWarning } from "../step-guards";
 
 export interface StepNumbers {
   id: string;
+  /** The step's label, or its reaction with species names. */
   label: string;
+  /** The reaction with species names. */
+  reaction: string;
   reversible: boolean;
   molecularity: number;
   form: string;
@@ -26,17 +32,22 @@ export interface StepNumbers {
   halfLife: number | null;
   extrapolated: boolean;
   problem: string | null;
+  /** A caution that does not stop the numbers, e.g. a thermal-form barrier used far from its reference temperature. */
+  caution: string | null;
 }
 
 export function stepNumbers(doc: MechanismDocument, T: number): StepNumbers[] {
+  const names = namesOf(doc);
   return doc.steps.map((st, i) => {
     const m = st.reactants.reduce((s, t) => s + t.coef, 0);
-    const base: StepNumbers = { id: st.id, label: st.label ?? st.id, reversible: st.reversible, molecularity: m, form: st.barrier.form, kf: null, kfUnit: "", kr: null, krUnit: null, dG: null, dGrxn: null, halfLife: null, extrapolated: false, problem: null };
+    const base: StepNumbers = { id: st.id, label: names.step(st.id), reaction: names.reaction(st.id), reversible: st.reversible, molecularity: m, form: st.barrier.form, kf: null, kfUnit: "", kr: null, krUnit: null, dG: null, dGrxn: null, halfLife: null, extrapolated: false, problem: null, caution: thermalReferenceWarning(st.barrier, T) };
     const eng = stepToEngine(st, `steps[${i}]`);
     if (!eng.ok) return { ...base, problem: eng.error.message };
     const c = convertBarrier({ ...eng.value, targetStandardState: "1M" }, T, `steps[${i}]`);
     if (!c.ok) return { ...base, problem: c.error.message };
     const out: StepNumbers = { ...base, kf: c.value.k, kfUnit: c.value.units, dG: c.value.dG, extrapolated: !!c.value.extrapolated, halfLife: m === 1 && c.value.k > 0 ? Math.LN2 / c.value.k : null };
+    const guard = barrierWarning({ dG: c.value.dG, kf: c.value.k, kfUnit: c.value.units }, T);
+    if (guard) out.caution = [guard, out.caution].filter(Boolean).join(" ");
     if (eng.value.thermo) {
       const r = reverseRateConstant(eng.value, T, `steps[${i}]`);
       if (r.ok) {
@@ -65,7 +76,8 @@ export interface ProfilePoint {
  */
 export function freeEnergyProfile(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): ProfilePoint[] {
   const byId = new Map(numbers.map((n) => [n.id, n]));
-  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef > 1 ? `${t.coef} ${t.species}` : t.species)).join(" + ");
+  const names = namesOf(doc);
+  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ");
   const pts: ProfilePoint[] = [];
   let G: number | null = 0;
   pathway.forEach((id, k) => {
