@@ -21,6 +21,7 @@
 import { z } from "zod";
 import type { Barrier, EngineError, ReactionThermo, Result, Species, StandardState, StepKinetics, StoichTerm } from "./types.ts";
 import type { MechanismInput } from "./model.ts";
+import { MAX_COEF } from "./barrier-forms.ts";
 import {
   ENERGY_FACTORS,
   ENTROPY_FACTORS,
@@ -91,7 +92,11 @@ const ThermalBarrierSchema = z
     form: z.literal("thermal"),
     Ea: finite(),
     dS: finite(),
-    dn: z.int().min(-2).max(0).meta({ description: "Δn‡ = 1 − molecularity: 0, −1 or −2." }),
+    dn: z
+      .number()
+      .min(-2)
+      .max(1)
+      .meta({ description: "Δn‡ = 1 − m for reaction order m: 0 unimolecular, −1 bimolecular, −2 termolecular, 1 for a zero-order source; fractional for a fractional order." }),
     unit: EnergyUnitSchema,
     entropyUnit: EntropyUnitSchema,
     standardState: StandardStateSchema,
@@ -171,7 +176,11 @@ export type DocumentSpecies = z.infer<typeof SpeciesSchema>;
 
 export const StoichTermSchema = z.strictObject({
   species: idString(),
-  coef: z.int().min(1).max(20).meta({ description: "Stoichiometric coefficient, a positive integer." }),
+  coef: z
+    .number()
+    .positive()
+    .max(MAX_COEF)
+    .meta({ description: "Stoichiometric coefficient, a positive number; fractional values are allowed and a reactant's coefficient is its order in the rate law." }),
 });
 
 export const ProvenanceSchema = z.strictObject({
@@ -188,8 +197,11 @@ export type DocumentProvenance = z.infer<typeof ProvenanceSchema>;
 export const StepSchema = z.strictObject({
   id: idString().meta({ description: "Identifier of the step; unique in the document." }),
   label: text(500).optional(),
-  reactants: z.array(StoichTermSchema).min(1).max(3),
-  products: z.array(StoichTermSchema).min(1).max(10),
+  reactants: z
+    .array(StoichTermSchema)
+    .max(3)
+    .meta({ description: "Reactants; none for a zero-order source (k in concentration·time⁻¹). A species may also appear among the products (autocatalysis)." }),
+  products: z.array(StoichTermSchema).max(20).meta({ description: "Products; none for a sink." }),
   reversible: z.boolean(),
   barrier: BarrierSchema,
   reactionThermo: ReactionThermoSchema.optional().meta({ description: "Required for a reversible step (reverse rate by detailed balance)." }),
@@ -496,6 +508,16 @@ function documentIssues(doc: MechanismDocument): FormatIssue[] {
         if (!species.has(t.species)) {
           out.push({ code: "unknown_species", path: `steps[${i}].${side}[${j}].species`, message: `Species "${t.species}" is not in the species list.` });
         }
+      });
+    }
+    if (st.reactants.length === 0 && st.products.length === 0) {
+      out.push({ code: "empty_step", path: `steps[${i}]`, message: "A step needs at least one reactant or one product." });
+    }
+    if (st.reversible && (st.reactants.length === 0 || st.products.length === 0)) {
+      out.push({
+        code: "open_step_reversible",
+        path: `steps[${i}].reversible`,
+        message: "A source (no reactants) or a sink (no products) cannot be reversible; enter any return flow as a step of its own.",
       });
     }
     if (st.reversible && !st.reactionThermo) {

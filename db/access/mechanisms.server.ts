@@ -213,7 +213,7 @@ export async function resolveSnapshot(db: Knex, name: string, snap: Snapshot): P
   const keyOfId = new Map(snap.species.map((s) => [s.speciesId, s.key]));
   const labelOfKey = new Map(snap.species.map((s) => [s.key, s.label]));
   const reaction = (d: DocumentStep) => {
-    const side = (ts: DocumentStep["reactants"]) => ts.map((t) => `${t.coef === 1 ? "" : t.coef + " "}${labelOfKey.get(t.species) ?? t.species}`).join(" + ");
+    const side = (ts: DocumentStep["reactants"]) => ts.map((t) => `${t.coef === 1 ? "" : t.coef + " "}${labelOfKey.get(t.species) ?? t.species}`).join(" + ") || "∅";
     return `${side(d.reactants)} ${d.reversible ? "⇌" : "→"} ${side(d.products)}`;
   };
   const species: ResolvedSpecies[] = snap.species.map((s) => ({ key: s.key, speciesId: s.speciesId, label: s.label, formula: s.formula, charge: s.charge, phase: s.phase }));

@@ -40,13 +40,14 @@ function numericEa(s: StepKinetics, T: number): number {
 }
 
 describe("molecularity", () => {
-  it("sums reactant coefficients and refuses more than three", () => {
+  it("sums reactant coefficients (0 for a source, fractional allowed) and refuses more than three", () => {
     expect(get(molecularity({ reactants: ter }))).toBe(3);
     expect(errCode(molecularity({ reactants: [{ species: "A", coef: 4 }] }))).toBe("MOLECULARITY");
-    expect(errCode(molecularity({ reactants: [] }))).toBe("MOLECULARITY");
-    const frac = molecularity({ reactants: [{ species: "A", coef: 1.5 }] }, "steps[2]");
-    expect(errCode(frac)).toBe("STOICHIOMETRY");
-    expect(!frac.ok && frac.error.path).toBe("steps[2].reactants[0].coef");
+    expect(get(molecularity({ reactants: [] }))).toBe(0);
+    expect(get(molecularity({ reactants: [{ species: "A", coef: 1.5 }] }))).toBe(1.5);
+    const neg = molecularity({ reactants: [{ species: "A", coef: -0.5 }] }, "steps[2]");
+    expect(errCode(neg)).toBe("STOICHIOMETRY");
+    expect(!neg.ok && neg.error.path).toBe("steps[2].reactants[0].coef");
   });
 });
 
@@ -297,7 +298,7 @@ describe("bad input → typed errors", () => {
     ["Δn‡ mismatch", step({ form: "thermal", Ea: 8e4, dS: 0, dn: 0, standardState: "1bar" }, 2), 300, "THERMAL_DN", "step.barrier.dn"],
     ["frequency absurd", { ...ok1, imagFreq: 1e6 }, 300, "FREQUENCY", "step.imagFreq"],
     ["molecularity 4", { ...ok1, reactants: [{ species: "A", coef: 2 }, { species: "B", coef: 2 }] }, 300, "MOLECULARITY", "step.reactants"],
-    ["no reactants", { ...ok1, reactants: [] }, 300, "MOLECULARITY"],
+    ["non-finite coefficient", { ...ok1, reactants: [{ species: "A", coef: Number.NaN }] }, 300, "STOICHIOMETRY", "step.reactants[0].coef"],
     ["bad coefficient", { ...ok1, reactants: [{ species: "A", coef: 0 }] }, 300, "STOICHIOMETRY", "step.reactants[0].coef"],
     ["overflow", step({ form: "dG", dG: -50e3, Tref: 5, standardState: "1M" }), 5, "OVERFLOW"],
     ["unknown form", step({ form: "guess" } as unknown as Barrier), 300, "EMPTY_INPUT", "step.barrier.form"],

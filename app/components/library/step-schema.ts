@@ -16,6 +16,7 @@ import {
   StandardStateSchema,
   StepSchema,
 } from "../../../solver/exchange-format";
+import { MAX_COEF } from "../../../solver/barrier-forms";
 
 export const STEP_STATUSES = ["draft", "proposed", "approved", "deprecated"] as const;
 export type StepStatus = (typeof STEP_STATUSES)[number];
@@ -33,15 +34,22 @@ export const speciesIdOfKey = (key: string): number | null => {
 
 const SpeciesRef = z.strictObject({
   speciesId: z.int().positive().meta({ description: "Id of a species in the library's species table." }),
-  coef: z.int().min(1).max(20).meta({ description: "Stoichiometric coefficient." }),
+  coef: z
+    .number()
+    .positive("A stoichiometric coefficient must be positive.")
+    .max(MAX_COEF, `A stoichiometric coefficient must be at most ${MAX_COEF}.`)
+    .meta({ description: "Stoichiometric coefficient; fractional values are allowed (a reactant's coefficient is its order in the rate law)." }),
 });
 
 /** A new library step or a new version of one. */
 export const StepInputSchema = z
   .strictObject({
     label: z.string().trim().max(500).optional().meta({ description: "Short display name of the step." }),
-    reactants: z.array(SpeciesRef).min(1, "A step needs at least one reactant.").max(3, "At most three reactants (termolecular)."),
-    products: z.array(SpeciesRef).min(1, "A step needs at least one product.").max(10),
+    reactants: z
+      .array(SpeciesRef)
+      .max(3, "At most three reactants (termolecular).")
+      .meta({ description: "Reactants; none for a zero-order source. A species may also be a product (autocatalysis)." }),
+    products: z.array(SpeciesRef).max(20).meta({ description: "Products; none for a sink." }),
     reversible: z.boolean().default(false),
     barrier: BarrierSchema,
     reactionThermo: ReactionThermoSchema.optional(),

@@ -300,7 +300,7 @@ export function StepEditPanel({ id, doc, entry, T, baseVersion, onClose }: { id:
   }, [st, thermo, barrier, reversible, rxn, rxnUnit, rxnT]);
   const valid = draft && StepSchema.safeParse(draft).success ? draft : null;
   if (!st) return null;
-  const side = (t: { species: string; coef: number }[]) => t.map((x) => `${x.coef > 1 ? x.coef + " " : ""}${doc.species.find((s) => s.id === x.species)?.label ?? x.species}`).join(" + ");
+  const side = (t: { species: string; coef: number }[]) => t.map((x) => `${x.coef !== 1 ? x.coef + " " : ""}${doc.species.find((s) => s.id === x.species)?.label ?? x.species}`).join(" + ") || "∅";
   const name = st.label ?? st.id;
   return (
     <aside className="mt-3 space-y-2 rounded-md border border-copper-300 bg-copper-50 p-3 text-sm" aria-label="Edit step" data-testid="step-edit-panel">

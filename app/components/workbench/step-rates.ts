@@ -65,7 +65,7 @@ export interface ProfilePoint {
  */
 export function freeEnergyProfile(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): ProfilePoint[] {
   const byId = new Map(numbers.map((n) => [n.id, n]));
-  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef > 1 ? `${t.coef} ${t.species}` : t.species)).join(" + ");
+  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef !== 1 ? `${t.coef} ${t.species}` : t.species)).join(" + ") || "∅";
   const pts: ProfilePoint[] = [];
   let G: number | null = 0;
   pathway.forEach((id, k) => {
