@@ -13,7 +13,8 @@
  *  - dG with ΔH‡: ΔS‡ = (ΔH‡ − ΔG‡)/Tref, then dHdS.
  *  - dG alone: ΔG‡ held constant in its state (ΔH‡ = ΔG‡, ΔS‡ = 0); flagged `extrapolated`
  *           at T ≠ Tref.
- *  - thermal (Ea, ΔS‡, Δn‡, optional Tref, default 298.15 K): ΔH‡ = Ea − (1−Δn‡)·R·Tref, then
+ *  - thermal (Ea, ΔS‡, Δn‡ and the Tref at which Ea holds, always stated — Ea alone does not
+ *           fix ΔH‡, so no temperature is assumed): ΔH‡ = Ea − (1−Δn‡)·R·Tref, then
  *           dHdS in its standard state. At Tref this is exactly
  *           k = κ(k_BT/h)(c°)^(1−m)·e^(1−Δn‡)·e^(ΔS‡/R)·e^(−Ea/RT). Δn‡ must equal 1−m.
  *           In a gas state the local Arrhenius energy at Tref equals the entered Ea; in the
@@ -44,7 +45,6 @@ export const DH_MIN = -100e3; // J/mol, also for Ea
 export const DH_MAX = 1000e3; // J/mol, also for Ea
 export const DS_ABS_MAX = 1000; // J/(mol·K)
 export const N_ABS_MAX = 20;
-export const THERMAL_TREF_DEFAULT = 298.15; // K
 
 /** The numeric temperature law of a step (see the module comment). */
 export interface RateLaw {
@@ -231,7 +231,10 @@ function reduceStep(step: StepKinetics, law: RateLaw): RelError | null {
       return null;
     }
     case "thermal": {
-      const Tref = b.Tref ?? THERMAL_TREF_DEFAULT;
+      const Tref = b.Tref;
+      if (Tref === undefined) {
+        return relErr("MISSING_TREF", "The thermal form needs the temperature at which Ea was determined (Tref, K); none is assumed.", "barrier.Tref");
+      }
       const e =
         badState(b.standardState, "barrier.standardState") ??
         badDH(b.Ea, "barrier.Ea", "Ea") ??
@@ -372,7 +375,7 @@ export function compileStep(step: StepKinetics, path = "step"): Result<CompiledR
     case "thermal":
       source = b.standardState;
       relations = [
-        `ΔH‡ = Ea − (1−Δn‡)·R·Tref (ideal-gas PΔV‡ = Δn‡·RT), Tref = ${b.Tref ?? THERMAL_TREF_DEFAULT} K`,
+        `ΔH‡ = Ea − (1−Δn‡)·R·Tref (ideal-gas PΔV‡ = Δn‡·RT), Tref = ${b.Tref} K`,
         "k(Tref) = κ·(k_B T/h)·(c°)^(1−m)·e^(1−Δn‡)·e^(ΔS‡/R)·e^(−Ea/RT)",
         "ΔG‡(T) = ΔH‡ − T·ΔS‡",
         EYRING,

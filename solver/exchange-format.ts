@@ -100,7 +100,7 @@ const ThermalBarrierSchema = z
     unit: EnergyUnitSchema,
     entropyUnit: EntropyUnitSchema,
     standardState: StandardStateSchema,
-    T: kelvin().optional().meta({ description: "Temperature (K) at which Ea was determined; default 298.15." }),
+    T: kelvin().meta({ description: "Temperature (K) at which Ea was determined; required (ΔH‡ = Ea − (1 − Δn‡)·R·T depends on it)." }),
   })
   .meta({ description: "Thermal form: Ea, ΔS‡ and Δn‡ (ideal-gas PΔV‡ treatment)." });
 
@@ -636,9 +636,7 @@ function barrierToEngine(b: DocumentBarrier, m: number, path: string): Result<Ba
     case "dHdS":
       return { ok: true, value: { form: "dHdS", dH: energy(b.dH, b.unit), dS: entropy(b.dS, b.entropyUnit), standardState: b.standardState } };
     case "thermal": {
-      const out: Barrier = { form: "thermal", Ea: energy(b.Ea, b.unit), dS: entropy(b.dS, b.entropyUnit), dn: b.dn, standardState: b.standardState };
-      if (b.T !== undefined) out.Tref = b.T;
-      return { ok: true, value: out };
+      return { ok: true, value: { form: "thermal", Ea: energy(b.Ea, b.unit), dS: entropy(b.dS, b.entropyUnit), dn: b.dn, standardState: b.standardState, Tref: b.T } };
     }
     case "arrhenius": {
       const A = rateToSI(b.A, m, b.rateUnit, `${path}.A`);
@@ -754,9 +752,7 @@ function barrierToDocument(b: Barrier, m: number, u: Required<DocumentUnits>, pa
     case "dHdS":
       return { ok: true, value: { form: "dHdS", dH: e(b.dH), dS: s(b.dS), unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState } };
     case "thermal": {
-      const out: DocumentBarrier = { form: "thermal", Ea: e(b.Ea), dS: s(b.dS), dn: b.dn, unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState };
-      if (b.Tref !== undefined) out.T = b.Tref;
-      return { ok: true, value: out };
+      return { ok: true, value: { form: "thermal", Ea: e(b.Ea), dS: s(b.dS), dn: b.dn, unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState, T: b.Tref } };
     }
     case "arrhenius": {
       const A = rate(b.A, `${path}.A`);

@@ -19,6 +19,7 @@ export type RateErrorCode =
   | "OPEN_STEP_REVERSIBLE" // a source (no reactants) or sink (no products) marked reversible
   | "THERMAL_DN" // Δn‡ of the thermal form does not match the molecularity
   | "MISSING_THERMO" // reversible step without reaction thermochemistry
+  | "MISSING_TREF" // thermal form without the temperature at which Ea was determined
   | "OVERFLOW" // k or K_eq would exceed the double-precision range
   | "UNKNOWN_UNIT" // a unit id that is not in the unit lists
   | "UNKNOWN_STANDARD_STATE"

@@ -65,6 +65,13 @@ describe("steps API", () => {
     expect((await json(bad)).error.message).toMatch(/line 2/);
     const unknown = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: { ...body.barrier, colour: 1 } }));
     expect((await json(unknown)).error.fields["barrier.colour"]).toMatch(/Unknown field/);
+    // The thermal form's reference temperature is required: no 298.15 K is assumed.
+    const thermal = { form: "thermal", Ea: 70, dS: -100, dn: -1, unit: "kJ/mol", entropyUnit: "J/(mol K)", standardState: "1M" };
+    const noT = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: thermal }));
+    expect(noT.status).toBe(400);
+    expect(Object.keys((await json(noT)).error.fields)).toContain("barrier.T");
+    const withT = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, label: "API thermal", barrier: { ...thermal, T: 330 } }));
+    expect(withT.status).toBe(201);
     const unit = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: { ...body.barrier, unit: "kcal" } }));
     expect(Object.keys((await json(unit)).error.fields)).toContain("barrier.unit");
     const viewer = await api.stepsCreate(t.db, A.viewer, send("POST", "/steps", body));

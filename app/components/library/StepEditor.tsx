@@ -239,8 +239,8 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
               <>
                 {numField("Ea", "Ea", "barrier.Ea", eu)}
                 {numField("dS", "ΔS‡", "barrier.dS", su)}
-                {numField("dn", "Δn‡ (0, −1, −2)", "barrier.dn")}
-                {numField("Tref", "Ea determined at", "barrier.T", tUnit)}
+                {numField("dn", "Δn‡ = 1 − m (0, −1, −2)", "barrier.dn")}
+                {numField("Tref", "Ea determined at (required)", "barrier.T", tUnit)}
               </>
             )}
             {f.form === "arrhenius" && (
