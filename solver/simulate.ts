@@ -118,6 +118,14 @@ export type SimulationError = EngineError & { reason?: IntegrationError["reason"
 export const BDF_MIN_SPECIES = 20;
 
 /**
+ * Accepted relative tolerances (the same range as the API's). Below 1e-13 the round-off of a
+ * step (about 1e-16 per operation, accumulated over thousands of steps) is no longer small
+ * against the tolerance, so it could not be met; above 0.1 the results would not be worth having.
+ */
+export const MIN_RTOL = 1e-13;
+export const MAX_RTOL = 0.1;
+
+/**
  * BDF failures after which stiffMethod "auto" reruns the mechanism with RODAS4: the ones that say
  * the method could not follow the solution (not the budgets, not a cancellation).
  */
@@ -171,6 +179,14 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
   }
   const atol = options.atol ?? 1e-12;
   if (!(atol > 0) || !Number.isFinite(atol)) return bad("BAD_TOLERANCE", "The absolute tolerance must be a positive finite number of mol/L.", "atol");
+  const rtol = options.rtol ?? 1e-6;
+  if (!(rtol >= MIN_RTOL && rtol <= MAX_RTOL)) {
+    return bad(
+      "BAD_TOLERANCE",
+      `The relative tolerance must lie between ${MIN_RTOL} and ${MAX_RTOL} (got ${String(rtol)}): below that, round-off in double precision exceeds it and the run could not deliver the accuracy asked for.`,
+      "rtol",
+    );
+  }
 
   // conversion events
   const evReq = options.conversionEvents ?? [];
@@ -268,7 +284,7 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
     },
   };
   const intOpts = {
-    rtol: options.rtol ?? 1e-6,
+    rtol,
     atol,
     outputTimes: grid.value,
     breakpoints: prog.value.breakpoints,
@@ -337,7 +353,7 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
       if (m > maxDrift) maxDrift = m;
     }
     const warnings = [...model.warnings, ...extraWarnings];
-    if (maxDrift > 100 * (options.rtol ?? 1e-6)) warnings.push(`Conservation drift reached ${maxDrift.toExponential(2)} (relative), above 100 × rtol.`);
+    if (maxDrift > 100 * rtol) warnings.push(`Conservation drift reached ${maxDrift.toExponential(2)} (relative), above 100 × rtol.`);
     const events: ConversionEvent[] = evReq.map((q, e) => {
       const base = { species: q.species, conversion: q.conversion, target: evTarget[e] };
       if (useStiff) return { ...base, time: watchers[e].time, located: "dense-output" as const };
@@ -349,7 +365,12 @@ export function simulate(model: CompiledModel, options: SimulateOptions): Result
   if (rateProblem) return { ok: false, error: rateProblem };
   if (!out.ok) {
     const e = out.error;
-    const err: SimulationError = { code: e.code, message: spent ? `${e.message} (RODAS4, rerun after the BDF integrator had stopped)` : e.message, reason: e.reason };
+    let message = spent ? `${e.message} (RODAS4, rerun after the BDF integrator had stopped)` : e.message;
+    // say plainly that the requested accuracy was not delivered, and that nothing past the stop is given
+    if (e.reason === "step-size-underflow" || e.reason === "non-finite" || e.reason === "singular") {
+      message += ` The requested tolerance (rtol ${rtol}, atol ${atol} mol/L) could not be met there; results stop at that time.`;
+    }
+    const err: SimulationError = { code: e.code, message, reason: e.reason };
     if (e.path) err.path = e.path;
     if (e.partial) err.partial = assemble(e.partial.times, e.partial.states, e.partial.stats);
     return { ok: false, error: err };
