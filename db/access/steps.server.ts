@@ -114,10 +114,6 @@ export async function buildVersion(db: Knex, input: StepInputParsed, stepId: num
   input.products.forEach((t, i) => {
     if (!species.has(t.speciesId)) fields[`products[${i}].speciesId`] = `No species with id ${t.speciesId}.`;
   });
-  if (input.reactants.length === 0 && input.products.length === 0) fields.reactants = "A step needs at least one reactant or one product.";
-  if (input.reversible && (input.reactants.length === 0 || input.products.length === 0)) {
-    fields.reversible = "A source (no reactants) or a sink (no products) cannot be reversible; enter any return flow as a step of its own.";
-  }
   if (Object.keys(fields).length) throw new InputError(Object.values(fields)[0], fields);
   if (input.reversible && !input.reactionThermo) {
     throw new InputError("A reversible step needs the reaction free energy (for the reverse rate).", { reactionThermo: "Required for a reversible step." });
