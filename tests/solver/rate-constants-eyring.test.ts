@@ -339,3 +339,35 @@ describe("derived forms at rounding level", () => {
     expect(conv.dS).toBe(0);
   });
 });
+
+describe("Eyring law for a zero-order source and a fractional order (k = κ(k_BT/h)(c°)^(1−m)e^(−ΔG‡/RT))", () => {
+  const T = 310;
+  const dG = 90e3;
+  const RT = R_GAS * T;
+  const source = (state: StandardState): StepKinetics => ({ id: "src", reactants: [], products: [{ species: "P", coef: 1 }], reversible: false, barrier: { form: "dG", dG, Tref: T, standardState: state } });
+  const half = (state: StandardState): StepKinetics => ({ id: "half", reactants: [{ species: "A", coef: 1.5 }], products: [{ species: "P", coef: 1 }], reversible: false, barrier: { form: "dG", dG, Tref: T, standardState: state } });
+
+  it("m = 0: k in mol L⁻¹ s⁻¹ carries one factor c° of the barrier's standard state", () => {
+    const c1bar = get(standardConcentration("1bar", T));
+    const k = get(rateConstant(source("1bar"), T));
+    expect(k.units).toBe("mol L⁻¹ s⁻¹");
+    expect(k.k / (KB_OVER_H * T * c1bar * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+    // the same barrier in 1 mol/L gives c° = 1
+    expect(get(rateConstant(source("1M"), T)).k / (KB_OVER_H * T * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+  });
+
+  it("m = 0 and m = 1.5: the standard-state shift (m−1)·RT·ln(c°_from/c°_to) reproduces k in the other state", () => {
+    for (const [mk, m] of [[source, 0], [half, 1.5]] as const) {
+      const shift = get(standardStateShift("1bar", "1M", m, T));
+      const c = get(convertBarrier({ ...mk("1bar"), targetStandardState: "1M" }, T));
+      expect(c.standardStateShift).toBeCloseTo(shift, 9);
+      expect(c.dG).toBeCloseTo(dG + shift, 6);
+      // k is the same physical number whichever state the barrier was given in
+      const kFrom1M = get(rateConstant(mk("1M"), T));
+      const kBack = KB_OVER_H * T * Math.exp(-(dG + shift) / RT);
+      expect(kFrom1M.k / (KB_OVER_H * T * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+      expect(c.k / kBack).toBeCloseTo(1, 10);
+    }
+    expect(get(rateConstant(half("1M"), T)).units).toBe("L^0.5 mol^-0.5 s⁻¹");
+  });
+});
