@@ -41,6 +41,7 @@ export default [
   route("api/v1/health", "routes/api.v1.health.ts"),
   route("api/v1/rates", "routes/api.v1.rates.ts"),
   route("api/v1/simulate", "routes/api.v1.simulate.ts"),
+  route("api/v1/activation-parameters", "routes/api.v1.activation-parameters.ts"),
   route("api/v1/me", "routes/api.v1.me.ts"),
   route("api/v1/runs", "routes/api.v1.runs.ts"),
   route("api/v1/runs/:id", "routes/api.v1.runs.$id.ts"),

@@ -1,7 +1,9 @@
 /**
  * Engine benchmark cases: Robertson to t = 1e11, HIRES to t = 321.8122 (RODAS4), seeded stiff
  * mass-action networks (N = 50, 200, 1000) through simulate() (whose "auto" choice runs them with
- * the BDF integrator, solver/bdf.ts), and the rate-constant batch.
+ * the BDF integrator, solver/bdf.ts; each is also run with RODAS4 at the same tolerances, and the
+ * error and time of both are printed side by side: the automatic choice must be no less
+ * accurate than RODAS4), and the rate-constant batch.
  * Tolerances rtol 1e-6 throughout; atol per problem (stated below). When python3 with scipy is
  * available, bench/scipy_compare.py runs solve_ivp (BDF, Radau, LSODA, analytic Jacobians,
  * sparse for the networks) on the same problems and tolerances.
@@ -203,6 +205,9 @@ async function run(): Promise<BenchCase[]> {
     const r = runs === 1 ? { ms: first.value.stats.wallMs, cpuMs: NaN, coldMs: first.value.stats.wallMs, value: first } : timeIt(() => sim(RTOL, atol, NETWORK_BUDGET_MS), runs, 3, 1000);
     if (!r.value.ok) throw new Error(`network ${N} failed: ${r.value.error.message}`);
     const y = r.value.value.conc.map((c) => c[c.length - 1]);
+    // the yardstick: RODAS4 on the same problem and tolerances
+    const rod = timeIt(() => sim(RTOL, atol, NETWORK_BUDGET_MS, "rosenbrock"), N >= 1000 ? 3 : 5, 2, 0);
+    const yRod = rod.value.ok ? rod.value.value.conc.map((c) => c[c.length - 1]) : null;
     let m0 = 0, m1 = 0;
     for (let i = 0; i < N; i++) ((m0 += net.mass[i] * net.c0[i]), (m1 += net.mass[i] * y[i]));
     cases.push({
@@ -211,6 +216,8 @@ async function run(): Promise<BenchCase[]> {
       runs,
       steps: r.value.value.stats.accepted,
       maxRelError: yRef ? maxRelError(y, yRef, atol) : undefined,
+      rodas4Ms: yRod ? rod.ms : undefined,
+      rodas4Error: yRod && yRef ? maxRelError(yRod, yRef, atol) : undefined,
       extra: {
         rtol: RTOL,
         atol,

@@ -41,7 +41,7 @@ export function randomSteps(count: number, seed = 12345): StepKinetics[] {
         barrier = { form: "dHdS", dH, dS, standardState: state };
         break;
       case 3:
-        barrier = { form: "thermal", Ea: dH + m * 8.314 * 298.15, dS, dn: 1 - m, standardState: state };
+        barrier = { form: "thermal", Ea: dH + m * 8.314 * 298.15, dS, dn: 1 - m, standardState: state, Tref: 298.15 };
         break;
       case 4:
         barrier = { form: "arrhenius", A: Math.pow(10, 6 + u() * 8), Ea: dH, n: u() < 0.5 ? 0 : u() * 2, Tref: 298 };

@@ -29,12 +29,14 @@ function fmt(v: number | undefined, digits = 3): string {
 }
 
 function table(rows: BenchCase[]): string {
-  const head = ["case", "ours ms", "steps", "max rel err", "scipy ms", "scipy method", "scipy/ours"];
+  const head = ["case", "ours ms", "steps", "max rel err", "RODAS4 ms", "RODAS4 err", "scipy ms", "scipy method", "scipy/ours"];
   const body = rows.map((c) => [
     c.name,
     fmt(c.wallMsMedian),
     c.steps === undefined ? "–" : String(c.steps),
     fmt(c.maxRelError, 2),
+    fmt(c.rodas4Ms),
+    fmt(c.rodas4Error, 2),
     fmt(c.scipyFastestMs),
     c.scipyFastestMethod ?? "–",
     fmt(c.speedup),

@@ -9,6 +9,9 @@ export type BenchCase = {
   steps?: number;
   /** Largest relative error against the reference over components above atol. */
   maxRelError?: number;
+  /** The same problem and tolerances through RODAS4 (network cases: the yardstick of the automatic choice). */
+  rodas4Ms?: number;
+  rodas4Error?: number;
   /** Median ms of the fastest scipy method on the same problem, when measured. */
   scipyFastestMs?: number;
   scipyFastestMethod?: string;

@@ -13,7 +13,8 @@
  *  - dG with ΔH‡: ΔS‡ = (ΔH‡ − ΔG‡)/Tref, then dHdS.
  *  - dG alone: ΔG‡ held constant in its state (ΔH‡ = ΔG‡, ΔS‡ = 0); flagged `extrapolated`
  *           at T ≠ Tref.
- *  - thermal (Ea, ΔS‡, Δn‡, optional Tref, default 298.15 K): ΔH‡ = Ea − (1−Δn‡)·R·Tref, then
+ *  - thermal (Ea, ΔS‡, Δn‡ and the Tref at which Ea holds, always stated — Ea alone does not
+ *           fix ΔH‡, so no temperature is assumed): ΔH‡ = Ea − (1−Δn‡)·R·Tref, then
  *           dHdS in its standard state. At Tref this is exactly
  *           k = κ(k_BT/h)(c°)^(1−m)·e^(1−Δn‡)·e^(ΔS‡/R)·e^(−Ea/RT). Δn‡ must equal 1−m.
  *           In a gas state the local Arrhenius energy at Tref equals the entered Ea; in the
@@ -44,11 +45,10 @@ export const DH_MIN = -100e3; // J/mol, also for Ea
 export const DH_MAX = 1000e3; // J/mol, also for Ea
 export const DS_ABS_MAX = 1000; // J/(mol·K)
 export const N_ABS_MAX = 20;
-export const THERMAL_TREF_DEFAULT = 298.15; // K
 
 /** The numeric temperature law of a step (see the module comment). */
 export interface RateLaw {
-  /** Molecularity m (1–3). */
+  /** Molecularity m: the reaction order Σ reactant coefficients, 0–3 (0 for a source; may be fractional). */
   m: number;
   /** ln k_core(T) = a + b·ln T − c/T, k_core in (mol/L)^(1−m)·s⁻¹. */
   a: number;
@@ -110,21 +110,31 @@ function badState(s: unknown, rel: string): RelError | null {
   return isStandardState(s) ? null : relErr("UNKNOWN_STANDARD_STATE", `"${String(s)}" is not a known standard state.`, rel);
 }
 
-/** Σ coefficients of one side (1–3), or an error with a path relative to `rel`. */
+/** Largest stoichiometric coefficient accepted on either side (products of lumped steps may be large). */
+export const MAX_COEF = 1000;
+
+/**
+ * Σ coefficients of one side (its reaction order, 0–3), or an error with a path relative to
+ * `rel`. An empty side is allowed: no reactants is a zero-order source (m = 0), no products a
+ * sink. Coefficients are positive finite numbers; fractional ones are allowed (the rate law
+ * uses them as orders: v = k·Π c^ν).
+ */
 function orderOf(terms: StoichTerm[] | undefined, rel: string, what: "reactant" | "product"): number | RelError {
-  if (!Array.isArray(terms) || terms.length === 0) return relErr("MOLECULARITY", `A step needs at least one ${what}.`, rel);
+  if (terms === undefined) terms = [];
+  if (!Array.isArray(terms)) return relErr("STOICHIOMETRY", `The ${what}s must be a list.`, rel);
   let m = 0;
   for (let i = 0; i < terms.length; i++) {
     const t = terms[i];
     if (!t || typeof t.species !== "string" || t.species === "") {
       return relErr("STOICHIOMETRY", `Each ${what} needs a species id.`, `${rel}[${i}]`);
     }
-    if (typeof t.coef !== "number" || !Number.isInteger(t.coef) || t.coef < 1) {
-      return relErr("STOICHIOMETRY", `A stoichiometric coefficient must be a positive integer (got ${String(t.coef)}).`, `${rel}[${i}].coef`);
+    if (typeof t.coef !== "number" || !Number.isFinite(t.coef) || t.coef <= 0 || t.coef > MAX_COEF) {
+      return relErr("STOICHIOMETRY", `A stoichiometric coefficient must be a positive number up to ${MAX_COEF} (got ${String(t.coef)}).`, `${rel}[${i}].coef`);
     }
     m += t.coef;
   }
-  if (m > 3) {
+  // Rounding of fractional coefficients (1/3 + 1/3 + 1/3) must not push an order of 3 over the limit.
+  if (m > 3 + 1e-12) {
     return relErr("MOLECULARITY", `An elementary step has at most three ${what} molecules (the coefficients add up to ${m}).`, rel);
   }
   return m;
@@ -135,15 +145,16 @@ function toResult<T>(e: RelError, path: string): Result<T> {
 }
 
 /**
- * Molecularity m = Σ reactant coefficients (1–3). Each coefficient must be a positive
- * integer and each species id non-empty. Errors: MOLECULARITY, STOICHIOMETRY.
+ * Molecularity (reaction order) m = Σ reactant coefficients, 0–3: 0 for a zero-order source
+ * (no reactants), fractional when a coefficient is. Each coefficient must be a positive finite
+ * number and each species id non-empty. Errors: MOLECULARITY, STOICHIOMETRY.
  */
 export function molecularity(step: Pick<StepKinetics, "reactants">, path = "step"): Result<number> {
   const m = orderOf(step?.reactants, "reactants", "reactant");
   return typeof m === "number" ? ok(m) : toResult(m, path);
 }
 
-/** Σ coefficients of one side of a step (1–3), checked like molecularity; `path` names the side. */
+/** Σ coefficients of one side of a step (0–3), checked like molecularity; `path` names the side. */
 export function sideOrder(terms: StoichTerm[] | undefined, path: string, what: "reactant" | "product"): Result<number> {
   const m = orderOf(terms, "", what);
   return typeof m === "number" ? ok(m) : toResult(m, path);
@@ -220,7 +231,10 @@ function reduceStep(step: StepKinetics, law: RateLaw): RelError | null {
       return null;
     }
     case "thermal": {
-      const Tref = b.Tref ?? THERMAL_TREF_DEFAULT;
+      const Tref = b.Tref;
+      if (Tref === undefined) {
+        return relErr("MISSING_TREF", "The thermal form needs the temperature at which Ea was determined (Tref, K); none is assumed.", "barrier.Tref");
+      }
       const e =
         badState(b.standardState, "barrier.standardState") ??
         badDH(b.Ea, "barrier.Ea", "Ea") ??
@@ -295,7 +309,8 @@ export function rateLaw(step: StepKinetics, path = "step"): Result<RateLaw> {
 /** Laws of many steps as parallel typed arrays (for batch evaluation). */
 export interface RateLawTable {
   count: number;
-  m: Uint8Array;
+  /** Reaction order of each law (0–3, may be fractional). */
+  m: Float64Array;
   /** a + ln κ */
   a: Float64Array;
   b: Float64Array;
@@ -309,7 +324,7 @@ export function rateLawTable(steps: StepKinetics[]): Result<RateLawTable> {
   const n = steps.length;
   const t: RateLawTable = {
     count: n,
-    m: new Uint8Array(n),
+    m: new Float64Array(n),
     a: new Float64Array(n),
     b: new Float64Array(n),
     c: new Float64Array(n),
@@ -360,7 +375,7 @@ export function compileStep(step: StepKinetics, path = "step"): Result<CompiledR
     case "thermal":
       source = b.standardState;
       relations = [
-        `ΔH‡ = Ea − (1−Δn‡)·R·Tref (ideal-gas PΔV‡ = Δn‡·RT), Tref = ${b.Tref ?? THERMAL_TREF_DEFAULT} K`,
+        `ΔH‡ = Ea − (1−Δn‡)·R·Tref (ideal-gas PΔV‡ = Δn‡·RT), Tref = ${b.Tref} K`,
         "k(Tref) = κ·(k_B T/h)·(c°)^(1−m)·e^(1−Δn‡)·e^(ΔS‡/R)·e^(−Ea/RT)",
         "ΔG‡(T) = ΔH‡ − T·ΔS‡",
         EYRING,

@@ -42,7 +42,7 @@
  * atol in state units.
  */
 import type { IntegrateOptions, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
-import { REASON_CODE, fail, partialResult, setUpRun, startingStep as startingStepFor, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
+import { GROWTH_STEP, REASON_CODE, fail, partialResult, setUpRun, startingStep as startingStepFor, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
 
 const MAX_ORDER = 5;
 // Shampine & Reichelt (1997), Table 1: NDF κ for orders 1–4; order 5 is plain BDF (κ = 0).
@@ -208,6 +208,16 @@ export function integrateBDF(
 
     // step size and order for this attempt
     hWanted = Math.min(hWanted, maxStep);
+    if (nonNeg) {
+      // follow a self-amplifying component (GROWTH_STEP): the limit comes from J at the current
+      // solution, so a stale J is refreshed first when it would bind
+      let g = la.selfGrowthRate(D.subarray(0, n));
+      if (g > 0 && hWanted * g > GROWTH_STEP && !jacCurrent) {
+        refreshJacobian();
+        g = la.selfGrowthRate(D.subarray(0, n));
+      }
+      if (g > 0 && hWanted * g > GROWTH_STEP) hWanted = GROWTH_STEP / g;
+    }
     const room = nextStop - t;
     if (hWanted >= room || t + hWanted >= nextStop) hWanted = room;
     else if (t + 2 * hWanted > nextStop && hWanted > 0.5 * room) hWanted = 0.5 * room; // avoid a sliver step before the stop

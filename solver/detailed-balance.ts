@@ -19,7 +19,7 @@ import { compileStep, lnRateCompiled, rateLawTable, sideOrder, type CompiledRate
 import { checkFinite, checkTemperature, fail, joinPath, ok } from "./input-checks.ts";
 import { LN_MAX_DOUBLE, evaluateLawTable } from "./rates.ts";
 import { isStandardState, standardPressure } from "./standard-state.ts";
-import { RATE_CONSTANT_UNITS, type RateConstantUnitLabel } from "./units.ts";
+import { rateConstantUnitLabel, type RateConstantUnitLabel } from "./units.ts";
 import type { ReactionThermo, Result, StandardState, StepKinetics } from "./types.ts";
 
 export const THERMO_ENERGY_ABS_MAX = 2000e3; // J/mol
@@ -59,6 +59,13 @@ export function compileThermo(step: StepKinetics, path = "step"): Result<Compile
   if (!rOrder.ok) return rOrder;
   const pOrder = sideOrder(step.products, joinPath(path, "products"), "product");
   if (!pOrder.ok) return pOrder;
+  if (rOrder.value === 0 || pOrder.value === 0) {
+    return fail(
+      "OPEN_STEP_REVERSIBLE",
+      "A source (no reactants) or a sink (no products) exchanges matter with the surroundings and has no equilibrium constant; make it irreversible, and enter any return flow as a step of its own.",
+      joinPath(path, "reversible"),
+    );
+  }
   const th = step.thermo as ReactionThermo | undefined;
   const tp = joinPath(path, "thermo");
   if (!th || typeof th !== "object") {
@@ -214,8 +221,8 @@ export function reverseRateConstant(step: StepKinetics, T: number, path = "step"
     kFwd: Math.exp(lnkF),
     kRev: Math.exp(lnkRev),
     lnkRev,
-    unitsFwd: RATE_CONSTANT_UNITS[fr.value.m - 1],
-    unitsRev: RATE_CONSTANT_UNITS[th.value.productOrder - 1],
+    unitsFwd: rateConstantUnitLabel(fr.value.m),
+    unitsRev: rateConstantUnitLabel(th.value.productOrder),
     relations: [
       "ΔG°rxn(T) = ΔH° − T·ΔS°",
       "K° = exp(−ΔG°rxn/RT)",
@@ -252,7 +259,7 @@ export function rateConstantsBatchBoth(
   const F = fwdTable.value;
   const rev: RateLawTable = {
     count: nR,
-    m: new Uint8Array(nR),
+    m: new Float64Array(nR),
     a: new Float64Array(nR),
     b: new Float64Array(nR),
     c: new Float64Array(nR),

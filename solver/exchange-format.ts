@@ -21,6 +21,7 @@
 import { z } from "zod";
 import type { Barrier, EngineError, ReactionThermo, Result, Species, StandardState, StepKinetics, StoichTerm } from "./types.ts";
 import type { MechanismInput } from "./model.ts";
+import { MAX_COEF } from "./barrier-forms.ts";
 import {
   ENERGY_FACTORS,
   ENTROPY_FACTORS,
@@ -93,11 +94,15 @@ const ThermalBarrierSchema = z
     form: z.literal("thermal"),
     Ea: finite(),
     dS: finite(),
-    dn: z.int().min(-2).max(0).meta({ description: "Δn‡ = 1 − molecularity: 0, −1 or −2." }),
+    dn: z
+      .number()
+      .min(-2)
+      .max(1)
+      .meta({ description: "Δn‡ = 1 − m for reaction order m: 0 unimolecular, −1 bimolecular, −2 termolecular, 1 for a zero-order source; fractional for a fractional order." }),
     unit: EnergyUnitSchema,
     entropyUnit: EntropyUnitSchema,
     standardState: StandardStateSchema,
-    T: kelvin().optional().meta({ description: "Temperature (K) at which Ea was determined; default 298.15." }),
+    T: kelvin().meta({ description: "Temperature (K) at which Ea was determined; required (ΔH‡ = Ea − (1 − Δn‡)·R·T depends on it)." }),
   })
   .meta({ description: "Thermal form: Ea, ΔS‡ and Δn‡ (ideal-gas PΔV‡ treatment)." });
 
@@ -173,7 +178,11 @@ export type DocumentSpecies = z.infer<typeof SpeciesSchema>;
 
 export const StoichTermSchema = z.strictObject({
   species: idString(),
-  coef: z.int().min(1).max(20).meta({ description: "Stoichiometric coefficient, a positive integer." }),
+  coef: z
+    .number()
+    .positive()
+    .max(MAX_COEF)
+    .meta({ description: "Stoichiometric coefficient, a positive number; fractional values are allowed and a reactant's coefficient is its order in the rate law." }),
 });
 
 export const ProvenanceSchema = z.strictObject({
@@ -190,8 +199,11 @@ export type DocumentProvenance = z.infer<typeof ProvenanceSchema>;
 export const StepSchema = z.strictObject({
   id: idString().meta({ description: "Identifier of the step; unique in the document." }),
   label: text(500).optional(),
-  reactants: z.array(StoichTermSchema).min(1).max(3),
-  products: z.array(StoichTermSchema).min(1).max(10),
+  reactants: z
+    .array(StoichTermSchema)
+    .max(3)
+    .meta({ description: "Reactants; none for a zero-order source (k in concentration·time⁻¹). A species may also appear among the products (autocatalysis)." }),
+  products: z.array(StoichTermSchema).max(20).meta({ description: "Products; none for a sink." }),
   reversible: z.boolean(),
   barrier: BarrierSchema,
   reactionThermo: ReactionThermoSchema.optional().meta({ description: "Required for a reversible step (reverse rate by detailed balance)." }),
@@ -500,6 +512,16 @@ function documentIssues(doc: MechanismDocument): FormatIssue[] {
         }
       });
     }
+    if (st.reactants.length === 0 && st.products.length === 0) {
+      out.push({ code: "empty_step", path: `steps[${i}]`, message: "A step needs at least one reactant or one product." });
+    }
+    if (st.reversible && (st.reactants.length === 0 || st.products.length === 0)) {
+      out.push({
+        code: "open_step_reversible",
+        path: `steps[${i}].reversible`,
+        message: "A source (no reactants) or a sink (no products) cannot be reversible; enter any return flow as a step of its own.",
+      });
+    }
     if (st.reversible && !st.reactionThermo) {
       out.push({ code: "missing_thermo", path: `steps[${i}].reactionThermo`, message: "A reversible step needs its reaction thermochemistry (reactionThermo) for the reverse rate." });
     }
@@ -616,9 +638,7 @@ function barrierToEngine(b: DocumentBarrier, m: number, path: string): Result<Ba
     case "dHdS":
       return { ok: true, value: { form: "dHdS", dH: energy(b.dH, b.unit), dS: entropy(b.dS, b.entropyUnit), standardState: b.standardState } };
     case "thermal": {
-      const out: Barrier = { form: "thermal", Ea: energy(b.Ea, b.unit), dS: entropy(b.dS, b.entropyUnit), dn: b.dn, standardState: b.standardState };
-      if (b.T !== undefined) out.Tref = b.T;
-      return { ok: true, value: out };
+      return { ok: true, value: { form: "thermal", Ea: energy(b.Ea, b.unit), dS: entropy(b.dS, b.entropyUnit), dn: b.dn, standardState: b.standardState, Tref: b.T } };
     }
     case "arrhenius": {
       const A = rateToSI(b.A, m, b.rateUnit, `${path}.A`);
@@ -734,9 +754,7 @@ function barrierToDocument(b: Barrier, m: number, u: Required<DocumentUnits>, pa
     case "dHdS":
       return { ok: true, value: { form: "dHdS", dH: e(b.dH), dS: s(b.dS), unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState } };
     case "thermal": {
-      const out: DocumentBarrier = { form: "thermal", Ea: e(b.Ea), dS: s(b.dS), dn: b.dn, unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState };
-      if (b.Tref !== undefined) out.T = b.Tref;
-      return { ok: true, value: out };
+      return { ok: true, value: { form: "thermal", Ea: e(b.Ea), dS: s(b.dS), dn: b.dn, unit: u.energy, entropyUnit: u.entropy, standardState: b.standardState, T: b.Tref } };
     }
     case "arrhenius": {
       const A = rate(b.A, `${path}.A`);

@@ -183,6 +183,9 @@ export function checkElementBalance(reactants: BalanceTerm[], products: BalanceT
   const e2 = add(products, +1, "products");
   if (e2) return { ok: false, error: e2 };
   const excess: Record<string, number> = {};
-  for (const [k, v] of Object.entries(net)) if (v !== 0) excess[k] = v;
+  // Fractional coefficients leave rounding residues (1/3·3 − 1); below 1e-9 atoms is balanced.
+  const clean = (v: number) => (Math.abs(v) < 1e-9 ? 0 : v);
+  for (const [k, v] of Object.entries(net)) if (clean(v) !== 0) excess[k] = v;
+  charge = clean(charge);
   return { ok: true, value: { balanced: Object.keys(excess).length === 0 && charge === 0, elementExcess: excess, chargeExcess: charge } };
 }

@@ -14,10 +14,12 @@ export type RateErrorCode =
   | "RATE_CONSTANT" // measured k ≤ 0
   | "BARRIER_RANGE" // ΔG‡, ΔH‡, Ea or ΔS‡ outside the accepted range
   | "FREQUENCY" // imaginary frequency out of range
-  | "STOICHIOMETRY" // a coefficient that is not a positive integer, or an empty species id
-  | "MOLECULARITY" // Σ reactant coefficients outside 1–3
+  | "STOICHIOMETRY" // a coefficient that is not a positive finite number, or an empty species id
+  | "MOLECULARITY" // Σ reactant coefficients above 3
+  | "OPEN_STEP_REVERSIBLE" // a source (no reactants) or sink (no products) marked reversible
   | "THERMAL_DN" // Δn‡ of the thermal form does not match the molecularity
   | "MISSING_THERMO" // reversible step without reaction thermochemistry
+  | "MISSING_TREF" // thermal form without the temperature at which Ea was determined
   | "OVERFLOW" // k or K_eq would exceed the double-precision range
   | "UNKNOWN_UNIT" // a unit id that is not in the unit lists
   | "UNKNOWN_STANDARD_STATE"

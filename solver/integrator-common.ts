@@ -129,6 +129,18 @@ export function setUpRun(problem: OdeProblem, t0: number, tEnd: number, options:
   };
 }
 
+/**
+ * Under `nonNegative` (chemistry), a step may not exceed GROWTH_STEP / g, g = the fastest
+ * self-amplification rate ∂f_i/∂y_i > 0 of a present component (selfGrowthRate). An implicit
+ * method damps a growing mode it steps over (hλ ≫ 1 gives |R(hλ)| < 1): an autocatalyst seeded
+ * below atol would be stepped over, clipped to zero and never ignite, and the error estimate
+ * would not notice, as the seed is below the tolerance. Following the growth with hλ ≤ 1 lets
+ * the error test see it. Measured on A + B → 2A, k = 1e6 L/(mol·s), [A]₀ = 1e-9, [B]₀ = 1 mol/L
+ * (tests/solver/simulate-honesty.test.ts): without the limit both integrators returned [A] ≈ 0
+ * at t = 10 s at atol 1e-10 (the exact logistic answer is 1 mol/L).
+ */
+export const GROWTH_STEP = 1;
+
 /** The stiff methods' Jacobian and linear solver for one run. */
 export interface StiffLinearAlgebra {
   /** J at (t, y) into the solver's storage; fdBase must hold f(t, y) when the problem has no analytic Jacobian. */
@@ -137,6 +149,12 @@ export interface StiffLinearAlgebra {
   factor(shift: number, scale: number): boolean;
   /** Solve with the last factorisation, in place. */
   solve(b: Float64Array): void;
+  /**
+   * The fastest self-amplification in the last evaluated J: max ∂f_i/∂y_i over components with
+   * y_i > 0 and a positive diagonal (1/time), 0 when none grows. An autocatalyst (A + B → 2A)
+   * has ∂f_A/∂y_A = k·[B] > 0.
+   */
+  selfGrowthRate(y: Float64Array): number;
 }
 
 /**
@@ -192,13 +210,29 @@ export function stiffLinearAlgebra(
       }
     }
   };
+  // where each diagonal entry lives: in the sparse values (−1 when absent), else in the dense J
+  const diagPos = new Int32Array(n).fill(-1);
+  if (jacValues) {
+    const rp = jacDef!.kind === "sparse" ? jacDef!.rowPtr : new Int32Array(0);
+    const ci = jacDef!.kind === "sparse" ? jacDef!.colIdx : new Int32Array(0);
+    for (let i = 0; i < n; i++) for (let p = rp[i]; p < rp[i + 1]; p++) if (ci[p] === i) diagPos[i] = p;
+  }
+  const selfGrowthRate = (y: Float64Array): number => {
+    let g = 0;
+    for (let i = 0; i < n; i++) {
+      if (!(y[i] > 0)) continue;
+      const d = jacValues ? (diagPos[i] >= 0 ? jacValues[diagPos[i]] : 0) : Jd![i * n + i];
+      if (d > g) g = d;
+    }
+    return g;
+  };
   if (slu) {
     const s = slu, jv = jacValues!;
-    return { evalJacobian, factor: (shift, scale) => s.factorShifted(jv, shift, scale), solve: s.solve };
+    return { evalJacobian, factor: (shift, scale) => s.factorShifted(jv, shift, scale), solve: s.solve, selfGrowthRate };
   }
   const dlu = createDenseLU(n);
   const J = Jd!;
-  return { evalJacobian, factor: (shift, scale) => dlu.factorShifted(J, shift, scale), solve: dlu.solve };
+  return { evalJacobian, factor: (shift, scale) => dlu.factorShifted(J, shift, scale), solve: dlu.solve, selfGrowthRate };
 }
 
 /** The run so far, for a typed failure. */

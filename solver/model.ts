@@ -4,17 +4,27 @@
  * (left null space of the stoichiometric matrix) and an element-balance report.
  *
  * Units: concentrations c in mol/L; time in s; forward/reverse rate constants kf, kr in
- * (mol/L)^(1−m) s⁻¹ for a step of molecularity m (m = sum of coefficients on that side);
+ * (mol/L)^(1−m) s⁻¹ for a step of molecularity m (m = sum of coefficients on that side; 0 for
+ * a zero-order source, whose k is in mol L⁻¹ s⁻¹; fractional when a coefficient is);
  * reaction rates v in mol L⁻¹ s⁻¹; dc/dt in mol L⁻¹ s⁻¹; Jacobian entries in s⁻¹.
  *
  * Rate-law convention (IUPAC Green Book, rate of reaction — common practice): an elementary
  * step Σ ν_i R_i → Σ μ_j P_j has rate v = kf·Π c_Ri^ν_i − kr·Π c_Pj^μ_j, and
  * dc_X/dt = Σ_steps (μ_X − ν_X)·v. So for 2A → P, d[A]/dt = −2·k·[A]², and 1/[A] = 1/[A]₀ + 2kt.
  *
+ * Steps are taken as written: a step with no reactants is a zero-order source (v = kf), one with
+ * no products a sink; a species on both sides (A + B → 2A) enters dc/dt with its net coefficient
+ * and the rate law with its reactant order; coefficients may be fractional (0.5 A → P has
+ * v = k·[A]^0.5, and 77.27 X as a product adds 77.27 per unit of reaction). Sources and sinks
+ * exchange matter with the surroundings: they compile, with a warning, and cannot be reversible.
+ * A fractional order is evaluated on max(c, 0), so a concentration undershooting zero within
+ * the tolerance gives no NaN.
+ *
  * The model does not know rate constants: callers supply arrays kf[r], kr[r] for the current
  * temperature (kr ignored for irreversible steps).
  */
 import type { EngineError, Result, Species, StoichTerm } from "./types.ts";
+import { MAX_COEF } from "./barrier-forms.ts";
 import { checkElementBalance, type BalanceReport } from "./formula.ts";
 
 export interface ReactionInput {
@@ -104,26 +114,38 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
     ];
     const parsed: Side[] = [];
     for (const [terms, name] of sides) {
-      if (!Array.isArray(terms) || terms.length === 0) return bad("EMPTY_SIDE", `Step "${rx.id}" has no ${name}.`, `${path}.${name}`);
+      if (!Array.isArray(terms)) return bad("BAD_INPUT", `The ${name} of step "${rx.id}" must be a list.`, `${path}.${name}`);
       const acc = new Map<number, number>();
       for (let j = 0; j < terms.length; j++) {
         const t = terms[j];
         const i = speciesIndex.get(t.species);
         if (i === undefined) return bad("UNKNOWN_SPECIES", `Step "${rx.id}" refers to species "${t.species}", which is not in the mechanism.`, `${path}.${name}[${j}].species`);
-        if (!Number.isInteger(t.coef) || t.coef <= 0) return bad("BAD_COEFFICIENT", `Step "${rx.id}" has coefficient ${t.coef} for "${t.species}"; coefficients must be positive integers.`, `${path}.${name}[${j}].coef`);
+        if (typeof t.coef !== "number" || !Number.isFinite(t.coef) || t.coef <= 0 || t.coef > MAX_COEF) {
+          return bad("BAD_COEFFICIENT", `Step "${rx.id}" has coefficient ${t.coef} for "${t.species}"; coefficients must be positive numbers up to ${MAX_COEF}.`, `${path}.${name}[${j}].coef`);
+        }
         acc.set(i, (acc.get(i) ?? 0) + t.coef);
       }
       let m = 0;
       for (const v of acc.values()) m += v;
-      if (m > 3 && (name === "reactants" || rx.reversible)) return bad("MOLECULARITY", `Step "${rx.id}" has molecularity ${m} on its ${name} side; elementary steps allow at most 3.`, `${path}.${name}`);
+      if (m > 3 + 1e-12 && (name === "reactants" || rx.reversible)) return bad("MOLECULARITY", `Step "${rx.id}" has molecularity ${m} on its ${name} side; elementary steps allow at most 3.`, `${path}.${name}`);
       parsed.push({ sp: [...acc.keys()], ord: [...acc.values()] });
+    }
+    if (parsed[0].sp.length === 0 && parsed[1].sp.length === 0) return bad("EMPTY_SIDE", `Step "${rx.id}" has neither reactants nor products.`, path);
+    if (rx.reversible && (parsed[0].sp.length === 0 || parsed[1].sp.length === 0)) {
+      return bad(
+        "OPEN_STEP_REVERSIBLE",
+        `Step "${rx.id}" is a ${parsed[0].sp.length === 0 ? "source (no reactants)" : "sink (no products)"} and cannot be reversible; enter any return flow as a step of its own.`,
+        `${path}.reversible`,
+      );
     }
     fwd.push(parsed[0]);
     rev.push(parsed[1]);
     const nm = new Map<number, number>();
     parsed[0].sp.forEach((s, k) => nm.set(s, (nm.get(s) ?? 0) - parsed[0].ord[k]));
     parsed[1].sp.forEach((s, k) => nm.set(s, (nm.get(s) ?? 0) + parsed[1].ord[k]));
-    for (const [s, v] of [...nm]) if (v === 0) nm.delete(s);
+    // A species on both sides in equal amounts (a catalyst) has no net change; rounding of
+    // fractional coefficients is cleared the same way.
+    for (const [s, v] of [...nm]) if (Math.abs(v) <= 1e-12) nm.delete(s);
     net.push(nm);
   }
 
@@ -148,29 +170,48 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
   // ---- evaluation tables, compiled once into flat typed arrays.
   // Each rate factor is listed once per unit of its order (2A → [A, A]), padded to exactly three
   // factors per side with the index nS, which points at a constant 1 in the work copy `cx` of the
-  // concentrations (molecularity ≤ 3 is enforced for every side that enters a rate law). So a
-  // rate is kf·cx[a]·cx[b]·cx[c] with no inner loop. Irreversible steps have isRev 0.
+  // concentrations (molecularity ≤ 3 is enforced for every side that enters a rate law; a source
+  // has three padding factors). So a rate is kf·cx[a]·cx[b]·cx[c] with no inner loop.
+  // Irreversible steps have isRev 0. A side with a fractional order gets one slot of its own
+  // after the constant, cx[nS + 1 + g] = Π max(c, 0)^order, refreshed at the start of every
+  // evaluation (`fillGeneral`); its Jacobian is added by `generalJacobian`.
   const f3 = new Int32Array(3 * nR).fill(nS);
   const b3 = new Int32Array(3 * nR).fill(nS);
   const isRev = new Uint8Array(nR);
+  const gen: { r: number; sign: 1 | -1; sp: number[]; ord: number[] }[] = [];
+  const place = (side: Side, S3: Int32Array, r: number, sign: 1 | -1) => {
+    if (side.ord.every((o) => Number.isInteger(o))) {
+      let q = 0;
+      side.sp.forEach((sp, k) => {
+        for (let o = 0; o < side.ord[k]; o++) S3[3 * r + q++] = sp;
+      });
+    } else {
+      S3[3 * r] = nS + 1 + gen.length;
+      gen.push({ r, sign, sp: side.sp, ord: side.ord });
+    }
+  };
   for (let r = 0; r < nR; r++) {
-    let q = 0;
-    fwd[r].sp.forEach((sp, k) => {
-      for (let o = 0; o < fwd[r].ord[k]; o++) f3[3 * r + q++] = sp;
-    });
+    place(fwd[r], f3, r, 1);
     if (reversible[r]) {
       isRev[r] = 1;
-      q = 0;
-      rev[r].sp.forEach((sp, k) => {
-        for (let o = 0; o < rev[r].ord[k]; o++) b3[3 * r + q++] = sp;
-      });
+      place(rev[r], b3, r, -1);
     }
   }
-  const cx = new Float64Array(nS + 1);
+  const nGen = gen.length;
+  const cx = new Float64Array(nS + 1 + nGen);
   cx[nS] = 1;
+  const fillGeneral = () => {
+    for (let g = 0; g < nGen; g++) {
+      const { sp, ord } = gen[g];
+      let p = 1;
+      for (let k = 0; k < sp.length; k++) p *= Math.pow(Math.max(cx[sp[k]], 0), ord[k]);
+      cx[nS + 1 + g] = p;
+    }
+  };
 
   function rates(c: Float64Array, kf: Float64Array, kr: Float64Array, v: Float64Array): void {
     for (let i = 0; i < nS; i++) cx[i] = c[i];
+    if (nGen > 0) fillGeneral();
     for (let r = 0; r < nR; r++) {
       const q = 3 * r;
       let a = kf[r] * cx[f3[q]] * cx[f3[q + 1]] * cx[f3[q + 2]];
@@ -182,6 +223,7 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
     // Locals for the tables (measurably faster than the closure's bindings in this hot loop).
     const x = cx, F = f3, B = b3, P = nPtr, S = nSp, K = nCoef, rev = isRev;
     for (let i = 0; i < nS; i++) ((x[i] = c[i]), (dcdt[i] = 0));
+    if (nGen > 0) fillGeneral();
     let t = 0;
     for (let r = 0, q = 0; r < nR; r++, q += 3) {
       let a = kf[r] * x[F[q]] * x[F[q + 1]] * x[F[q + 2]];
@@ -235,11 +277,41 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
   const BT = targets(b3, (r) => isRev[r] === 1);
   const ftPtr = FT.ptr, ftPos = FT.pos, ftCoef = FT.coef, btPtr = BT.ptr, btPos = BT.pos, btCoef = BT.coef;
 
+  // Fractional-order sides: ∂v/∂c_j = ±k·ν_j·c_j^(ν_j−1)·Π_{i≠j} c_i^ν_i (on max(c, 0)); at
+  // c_j = 0 with ν_j < 1 the derivative is unbounded and is taken as 0 (the step then contributes
+  // no Jacobian entry for that species until it is present).
+  const genTargets = gen.map(({ r, sp }) =>
+    sp.map((s) => {
+      const pos: number[] = [];
+      const coef: number[] = [];
+      for (let t = nPtr[r]; t < nPtr[r + 1]; t++) {
+        pos.push(posMap[nSp[t]].get(s)!);
+        coef.push(nCoef[t]);
+      }
+      return { pos, coef };
+    }),
+  );
+  function generalJacobian(kf: Float64Array, kr: Float64Array, values: Float64Array): void {
+    for (let g = 0; g < nGen; g++) {
+      const { r, sign, sp, ord } = gen[g];
+      const k = sign === 1 ? kf[r] : kr[r];
+      for (let j = 0; j < sp.length; j++) {
+        const cj = Math.max(cx[sp[j]], 0);
+        if (cj === 0 && ord[j] < 1) continue;
+        let d = k * ord[j] * (ord[j] === 1 ? 1 : Math.pow(cj, ord[j] - 1));
+        for (let i = 0; i < sp.length; i++) if (i !== j) d *= Math.pow(Math.max(cx[sp[i]], 0), ord[i]);
+        const tg = genTargets[g][j];
+        for (let t = 0; t < tg.pos.length; t++) values[tg.pos[t]] += sign * tg.coef[t] * d;
+      }
+    }
+  }
+
   function jacobian(c: Float64Array, kf: Float64Array, kr: Float64Array, values: Float64Array): void {
     // Locals for the tables: the loops below run once per step and Jacobian, so they are kept tight.
     const x = cx, F = f3, B = b3, rev = isRev;
     const fP = ftPtr, fPos = ftPos, fC = ftCoef, bP = btPtr, bPos = btPos, bC = btCoef;
     for (let i = 0; i < nS; i++) x[i] = c[i];
+    if (nGen > 0) fillGeneral();
     values.fill(0);
     for (let r = 0, q = 0; r < nR; r++, q += 3) {
       // ∂(k·x0·x1·x2)/∂x_j = k·Π_{others}; repeated factors (2A) sum to 2k·c_A
@@ -266,6 +338,7 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
         for (let e = bP[q + 3]; t < e; t++) values[bPos[t]] -= bC[t] * d;
       }
     }
+    if (nGen > 0) generalJacobian(kf, kr, values);
   }
 
   // ---- element balance
@@ -273,6 +346,9 @@ export function compileMechanism(input: MechanismInput): Result<CompiledModel> {
   const elementBalance: ElementBalanceEntry[] = [];
   for (let r = 0; r < nR; r++) {
     const rx = input.reactions[r];
+    // Mass balance: a source or sink is an open boundary, accepted as written and reported.
+    if (fwd[r].sp.length === 0) warnings.push(`Step "${rx.id}" has no reactants: it is a zero-order source (matter enters at a constant rate).`);
+    if (rev[r].sp.length === 0) warnings.push(`Step "${rx.id}" has no products: it is a sink (matter leaves the mechanism).`);
     const formulaOf = (t: StoichTerm) => input.species[speciesIndex.get(t.species)!].formula;
     const all = [...rx.reactants, ...rx.products];
     if (all.some((t) => !formulaOf(t))) {

@@ -29,7 +29,7 @@ import {
   standardStateShiftUnchecked,
   standardStateTExponent,
 } from "./standard-state.ts";
-import { RATE_CONSTANT_UNITS, type RateConstantUnitLabel } from "./units.ts";
+import { formatOrder, rateConstantUnitLabel, type RateConstantUnitLabel } from "./units.ts";
 import type { Barrier, Result, StandardState, StepKinetics } from "./types.ts";
 
 export { molecularity, compileStep, rateLaw, rateLawTable, type CompiledRate, type RateLaw, type RateLawTable } from "./barrier-forms.ts";
@@ -119,7 +119,7 @@ export function rateConstant(step: StepKinetics, T: number, path = "step"): Resu
   const c = cr.value;
   const lnk = lnRateCompiled(c, T);
   if (!(lnk < LN_MAX_DOUBLE)) return overflow(joinPath(path, "barrier"), T);
-  return ok({ k: Math.exp(lnk), lnk, units: RATE_CONSTANT_UNITS[c.m - 1], extrapolated: isExtrapolated(c, T) });
+  return ok({ k: Math.exp(lnk), lnk, units: rateConstantUnitLabel(c.m), extrapolated: isExtrapolated(c, T) });
 }
 
 /**
@@ -178,17 +178,17 @@ export function convertBarrier(step: StepKinetics, T: number, path = "step"): Re
   } else {
     relations.push(`c° = p°/(RT) = ${cTarget.toPrecision(5)} mol/L at ${T} K (ideal-gas standard state ${target})`);
   }
-  if (src !== null && src !== target && m > 1) relations.push(describeStandardStateShift(src, target, m, T));
+  if (src !== null && src !== target && m !== 1) relations.push(describeStandardStateShift(src, target, m, T));
   if (c.tst && c.lnKappa !== 0) relations.push(`κ = ${Math.exp(c.lnKappa).toPrecision(4)} (transmission coefficient)`);
   if (c.wigner !== 0) relations.push("κ_W = 1 + (1/24)·(h·c·ν̃‡/(k_B·T))²");
   relations.push("Ea = RT²·d ln k/dT (local Arrhenius energy)");
   const wignerTerm = c.wigner !== 0 ? " + RT²·d ln κ_W/dT" : "";
-  const eaRelation = g === 0 ? `Ea = ΔH‡ + RT${wignerTerm}` : `Ea = ΔH‡ + ${m === 1 ? "" : m}RT${wignerTerm}`;
+  const eaRelation = g === 0 ? `Ea = ΔH‡ + RT${wignerTerm}` : `Ea = ΔH‡ + ${m === 1 ? "" : formatOrder(m)}RT${wignerTerm}`;
   if (g === 0) relations.push(`Ea = ΔH‡ + RT${wignerTerm} (1 mol/L standard state, PΔV‡ ≈ 0)`);
   else relations.push(`Ea = ΔH‡ + (1−Δn‡)·RT${wignerTerm}, Δn‡ = 1−m = ${1 - m} (ideal-gas standard state)`);
   relations.push("A = k·exp(Ea/RT)");
   relations.push("ΔS‡ = (ΔH‡ − ΔG‡)/T");
-  relations.push(`k in ${RATE_CONSTANT_UNITS[m - 1]} (m = ${m})`);
+  relations.push(`k in ${rateConstantUnitLabel(m)} (m = ${formatOrder(m)})`);
 
   const notes = [...c.notes];
   const extrapolated = isExtrapolated(c, T);
@@ -208,7 +208,7 @@ export function convertBarrier(step: StepKinetics, T: number, path = "step"): Re
     standardConcentration: cTarget,
     k,
     lnk,
-    units: RATE_CONSTANT_UNITS[m - 1],
+    units: rateConstantUnitLabel(m),
     kappa: Math.exp(c.lnKappa),
     kappaWigner: Math.exp(lnKappaW),
     dG,

@@ -19,7 +19,7 @@
  * rtol unitless, atol in state units.
  */
 import type { IntegrateOptions, IntegrationOutcome, OdeProblem, StepView, StopReason } from "./ode-problem.ts";
-import { REASON_CODE, fail, partialResult, setUpRun, startingStep, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
+import { GROWTH_STEP, REASON_CODE, fail, partialResult, setUpRun, startingStep, stiffLinearAlgebra, validateIntegrationInput } from "./integrator-common.ts";
 
 // RODAS4 coefficients, Hairer & Wanner II (1996), transformed form.
 const GAMMA = 0.25;
@@ -139,6 +139,10 @@ export function integrateStiff(
     if (tooSmall(h, t)) return stop("step-size-underflow", `The step size fell below the smallest resolvable value at t = ${t}.`);
 
     evalJacobian(t);
+    if (nonNeg) {
+      const g = la.selfGrowthRate(y);
+      if (g > 0 && h * g > GROWTH_STEP) h = GROWTH_STEP / g;
+    }
     if (!autonomous) {
       const del = Math.sqrt(1e-16) * Math.max(Math.abs(t), 1e-5);
       rhs(t + del, y, ftmp);

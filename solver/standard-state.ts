@@ -67,15 +67,17 @@ export function standardStateShiftUnchecked(from: StandardState, to: StandardSta
 
 /**
  * The shift of an activation free energy (J/mol) when its standard state changes from
- * `from` to `to`, for a step of molecularity m (1–3) at T (K):
+ * `from` to `to`, for a step of molecularity (reaction order) m at T (K), 0 ≤ m ≤ 3:
  *   ΔG‡_to − ΔG‡_from = (m−1)·RT·ln(c°_from/c°_to).
- * It is zero for unimolecular steps. The same formula with (m−1) replaced by −Δν converts
+ * It is zero for unimolecular steps; for a zero-order source (m = 0) it has the sign of a
+ * unimolecular step's opposite, and a fractional order scales it in proportion (the same
+ * (c°)^(1−m) factor of the Eyring law, common practice). The same formula with (m−1) replaced by −Δν converts
  * a reaction free energy ΔG°rxn (see detailed-balance.ts).
  */
 export function standardStateShift(from: StandardState, to: StandardState, m: number, T: number): Result<number> {
   if (!isStandardState(from)) return fail("UNKNOWN_STANDARD_STATE", `"${String(from)}" is not a known standard state.`, "from");
   if (!isStandardState(to)) return fail("UNKNOWN_STANDARD_STATE", `"${String(to)}" is not a known standard state.`, "to");
-  if (!(m === 1 || m === 2 || m === 3)) return fail("MOLECULARITY", `The molecularity must be 1, 2 or 3 (got ${String(m)}).`, "molecularity");
+  if (!(typeof m === "number" && m >= 0 && m <= 3)) return fail("MOLECULARITY", `The reaction order must lie between 0 and 3 (got ${String(m)}).`, "molecularity");
   const badT = checkTemperature(T, "T");
   if (badT) return badT;
   return ok(standardStateShiftUnchecked(from, to, m, T));

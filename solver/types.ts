@@ -32,8 +32,8 @@ export type Barrier =
       dS: number; // J/(mol·K)
       dn: number; // Δn‡: 0 unimolecular, −1 bimolecular, −2 termolecular
       standardState: StandardState;
-      /** K, temperature at which Ea was determined (ΔH‡ = Ea − (1−Δn‡)·R·Tref); default 298.15. */
-      Tref?: number;
+      /** K, temperature at which Ea was determined (ΔH‡ = Ea − (1−Δn‡)·R·Tref); required, never assumed. */
+      Tref: number;
     }
   | {
       form: "arrhenius"; // k = A·(T/Tref)^n·exp(−Ea/RT)

@@ -224,12 +224,38 @@ export function timeFromSeconds(seconds: number, unit: TimeUnit, path = "value")
 
 /** Display unit of a rate constant in mol/L units for molecularity m = 1, 2, 3. */
 export const RATE_CONSTANT_UNITS = ["s⁻¹", "L mol⁻¹ s⁻¹", "L² mol⁻² s⁻¹"] as const;
-export type RateConstantUnitLabel = (typeof RATE_CONSTANT_UNITS)[number];
+/**
+ * A rate-constant unit as displayed: one of RATE_CONSTANT_UNITS, "mol L⁻¹ s⁻¹" for a zero-order
+ * source (m = 0), or "L^(m−1) mol^(1−m) s⁻¹" written out for a fractional order.
+ */
+export type RateConstantUnitLabel = string;
 
-/** Unit string of k for molecularity m (1–3): "s⁻¹", "L mol⁻¹ s⁻¹", "L² mol⁻² s⁻¹". */
+/** Largest reaction order (sum of reactant coefficients) the engine accepts. */
+export const MAX_ORDER = 3;
+
+/** Reaction order m as display text: 0, 1, 2, 3 or up to four significant digits (0.5, 1.25). */
+export function formatOrder(m: number): string {
+  return Number.isInteger(m) ? String(m) : String(Number(m.toPrecision(4)));
+}
+
+/**
+ * Unit of k in mol/L units, (mol/L)^(1−m)·s⁻¹, for any order m from 0 to 3 (unchecked):
+ * m = 0 "mol L⁻¹ s⁻¹" (zero-order source), 1 "s⁻¹", 2 "L mol⁻¹ s⁻¹", 3 "L² mol⁻² s⁻¹",
+ * fractional m "L^(m−1) mol^(1−m) s⁻¹" with the exponents written out, e.g. m = 1.5 →
+ * "L^0.5 mol^-0.5 s⁻¹", m = 0.5 → "mol^0.5 L^-0.5 s⁻¹".
+ */
+export function rateConstantUnitLabel(m: number): RateConstantUnitLabel {
+  if (m === 1 || m === 2 || m === 3) return RATE_CONSTANT_UNITS[m - 1];
+  if (m === 0) return "mol L⁻¹ s⁻¹";
+  const e = formatOrder(m - 1);
+  const f = formatOrder(1 - m);
+  return m > 1 ? `L^${e} mol^${f} s⁻¹` : `mol^${f} L^${e} s⁻¹`;
+}
+
+/** Unit string of k for order m (0 to 3, fractional allowed): see rateConstantUnitLabel. */
 export function rateConstantUnit(m: number, path = "molecularity"): Result<RateConstantUnitLabel> {
-  if (m === 1 || m === 2 || m === 3) return ok(RATE_CONSTANT_UNITS[m - 1]);
-  return fail("MOLECULARITY", `A rate constant exists for molecularity 1, 2 or 3 only (got ${String(m)}).`, path);
+  if (typeof m === "number" && Number.isFinite(m) && m >= 0 && m <= MAX_ORDER) return ok(rateConstantUnitLabel(m));
+  return fail("MOLECULARITY", `A rate constant exists for reaction orders from 0 to ${MAX_ORDER} only (got ${String(m)}).`, path);
 }
 
 /**

@@ -26,7 +26,7 @@ import { massBalanceReport, yieldsAndSelectivity } from "../../solver/analysis";
 import { simulate, type ConversionEventRequest, type SimulationResult } from "../../solver/simulate";
 import type { TemperatureProgram } from "../../solver/temperature-program";
 import type { OutputGrid } from "../../solver/output-grid";
-import { RATE_CONSTANT_UNITS, concentrationToMolPerL, timeToSeconds, type TimeUnit } from "../../solver/units";
+import { rateConstantUnitLabel, concentrationToMolPerL, timeToSeconds, type TimeUnit } from "../../solver/units";
 import type { Result, Species } from "../../solver/types";
 import { engineFailure, invalidBody, jsonResponse, zodFields } from "./json-request.server";
 import { TemperatureSchema, TimeUnitSchema, requestPath, toKelvin } from "./compute-common.server";
@@ -272,8 +272,8 @@ export async function answerSimulate(value: unknown, text: string, signal?: { re
 
   const rateTable = eng.value.steps.map((st, r) => {
     const kf = rates.value[r].kf(T0);
-    const entry: Record<string, unknown> = { step: st.id, T: { value: T0, unit: "K" }, kForward: { value: kf, unit: RATE_CONSTANT_UNITS[sum(st.reactants) - 1] } };
-    if (rates.value[r].kr) entry.kReverse = { value: rates.value[r].kr!(T0), unit: RATE_CONSTANT_UNITS[sum(st.products) - 1] ?? null };
+    const entry: Record<string, unknown> = { step: st.id, T: { value: T0, unit: "K" }, kForward: { value: kf, unit: rateConstantUnitLabel(sum(st.reactants)) } };
+    if (rates.value[r].kr) entry.kReverse = { value: rates.value[r].kr!(T0), unit: rateConstantUnitLabel(sum(st.products)) };
     return entry;
   });
   const bySpecies: Record<string, Float64Array> = {};

@@ -91,7 +91,7 @@ async function body(request: Request, limit?: number): Promise<unknown> {
 export const StepSearchParams = z.strictObject({
   q: z.string().max(200).optional().meta({ description: "Words to look for (typo-tolerant) in labels, species, formulas, tags, method, citation, notes." }),
   status: z.array(z.enum(STEP_STATUSES)).optional().meta({ description: "Comma-separated statuses." }),
-  molecularity: z.array(z.coerce.number().int().min(1).max(3)).optional(),
+  molecularity: z.array(z.coerce.number().min(0).max(3)).optional(),
   source: z.array(z.enum(SOURCE_TYPES)).optional(),
   tag: z.array(z.string().max(100)).optional(),
   tmin: z.coerce.number().positive().optional().meta({ description: "K: only steps valid from at least this low." }),

@@ -1,7 +1,10 @@
 /**
- * The OpenAPI 3.1 description of the library, mechanism and species endpoints, generated
+ * The OpenAPI 3.1 description of every /api/v1 endpoint in app/routes.ts — the library,
+ * mechanism and species endpoints, the compute endpoints (rates, simulate, activation
+ * parameters), runs, datasets, the caller, health and this description itself — generated
  * from the same zod schemas the handlers validate with (zod 4 `z.toJSONSchema`).
- * Served at /api/v1/openapi.json and shown as a page at /api/v1/docs.
+ * Served at /api/v1/openapi.json and shown as a page at /api/v1/docs; a test checks that every
+ * API route of app/routes.ts is described.
  */
 import { z } from "zod";
 import {
@@ -17,6 +20,11 @@ import {
 import { MechanismDocumentSchema } from "../../solver/exchange-format";
 import { DiffParams, StepSearchParams } from "./library-api.server";
 import { IMPORT_LIMIT_BYTES } from "../../db/access/mechanisms.server";
+import { RatesRequestSchema, RATES_MAX_PAIRS } from "./compute-rates.server";
+import { SimulateRequestSchema } from "./compute-simulate.server";
+import { ActivationRequestSchema } from "./compute-activation.server";
+import { RunCreateSchema } from "../compute/run-api.server";
+import { DatasetCreateSchema } from "../compute/dataset-api.server";
 
 const ErrorBodySchema = z.strictObject({
   error: z.strictObject({
@@ -43,6 +51,11 @@ const SCHEMAS: Record<string, z.ZodType> = {
   MechanismUpdate: MechanismUpdateSchema,
   Fork: ForkSchema,
   MechanismDocument: MechanismDocumentSchema,
+  RatesRequest: RatesRequestSchema,
+  SimulateRequest: SimulateRequestSchema,
+  ActivationParametersRequest: ActivationRequestSchema,
+  RunCreate: RunCreateSchema,
+  DatasetCreate: DatasetCreateSchema,
 };
 
 function componentSchemas(): Record<string, unknown> {
@@ -76,7 +89,19 @@ const errors = (...codes: number[]) =>
     codes.map((c) => [
       String(c),
       {
-        description: { 400: "Invalid input (fields name each problem)", 401: "Not signed in / no valid token", 403: "Not allowed for your role", 404: "Not found or not visible to you", 409: "Stale baseVersion: someone saved first; nothing was written", 413: "Body too large" }[c] ?? "Error",
+        description:
+          {
+            400: "Invalid input (fields name each problem)",
+            401: "Not signed in / no valid token",
+            403: "Not allowed for your role",
+            404: "Not found or not visible to you",
+            405: "Method not allowed (the Allow header names the one accepted)",
+            409: "Stale baseVersion: someone saved first; nothing was written",
+            413: "Body too large",
+            422: "Valid JSON the engine cannot compute (code and field say why)",
+            429: "Too many compute requests this minute (Retry-After says when to try again)",
+            503: "Busy or degraded; try again",
+          }[c] ?? "Error",
         ...json("Error"),
       },
     ]),
@@ -88,7 +113,7 @@ export function openApiDocument(): Record<string, unknown> {
   return {
     openapi: "3.1.0",
     info: {
-      title: "Saddlebook API — step library and mechanisms",
+      title: "Saddlebook API — step library, mechanisms, rate constants, simulations, runs and datasets",
       version: "1",
       description:
         "JSON over HTTPS. Authenticate with the browser session or `Authorization: Bearer <token>`. Errors: {\"error\":{\"code\",\"message\",\"fields\"}}. Lists: {\"items\",\"nextCursor\"} with `cursor` and `limit` (1–200). Saves carry `baseVersion` (or If-Match with the ETag from GET); a stale one gets 409. Bodies are JSON (`Content-Type: application/json`; another declared type gets 415). A change signed in by the session cookie is accepted from Saddlebook's own pages only (another origin gets 403 `cross_origin`). Energies in requests carry their unit; derived values in responses are SI (J/mol, K).",
@@ -144,6 +169,69 @@ export function openApiDocument(): Record<string, unknown> {
       "/mechanisms/{id}/versions": { get: { summary: "History", parameters: [idParam()], responses: { 200: ok("Versions, newest first", "Page"), ...errors(404) } } },
       "/mechanisms/{id}/diff": { get: { summary: "Differences between versions, or against the parent", parameters: [idParam(), ...queryParams(DiffParams)], responses: { 200: ok("The diff, with k at T before and after"), ...errors(400, 404) } } },
       "/mechanisms/{id}/fork": { post: { summary: "Fork into your space (the owner is e-mailed)", parameters: [idParam()], requestBody: { required: false, ...json("Fork") }, responses: { 201: ok("{id, version}"), ...errors(400, 401, 403, 404) } } },
+      "/health": {
+        get: {
+          summary: "Liveness: {status, db}; 503 with the reason when the database is down (no sign-in needed)",
+          security: [],
+          responses: { 200: ok("{status: \"ok\", db: \"ok\"}"), 503: { description: "{status: \"degraded\", db: \"down\", reason}", content: { "application/json": { schema: { type: "object" } } } } },
+        },
+      },
+      "/me": { get: { summary: "The caller: id, e-mail, name, role and groups", responses: { 200: ok("The signed-in user"), ...errors(401, 405) } } },
+      "/rates": {
+        post: {
+          summary: `Rate constants and every derived barrier form of steps at temperatures (at most ${RATES_MAX_PAIRS} steps × temperatures)`,
+          requestBody: { required: true, ...json("RatesRequest") },
+          responses: { 200: ok("{temperatureUnit, results: [{id, molecularity, form, at: [{T, kForward, kReverse?, derived, relations, notes}]}]}"), ...errors(400, 401, 405, 413, 422, 429) },
+        },
+      },
+      "/simulate": {
+        post: {
+          summary: "Concentrations against time for a mechanism document and conditions (not stored; runs are stored)",
+          requestBody: { required: true, ...json("SimulateRequest") },
+          responses: { 200: ok("{times, concentrations, temperatures, rateConstants, analysis, statistics, warnings}"), ...errors(400, 401, 405, 413, 422, 429, 503) },
+        },
+      },
+      "/activation-parameters": {
+        post: {
+          summary: "Eyring and Arrhenius regression of a measured k(T) table: ΔH‡, ΔS‡, ΔG‡, Ea, ln A with standard errors and confidence intervals",
+          requestBody: { required: true, ...json("ActivationParametersRequest") },
+          responses: { 200: ok("{standardState, kUnit, n, dof, confidence, eyring: {dH, dS, dG, referenceTemperature, r2, residuals}, arrhenius: {Ea, lnA, A, r2, residuals}, notes}"), ...errors(400, 401, 405, 413, 422, 429) },
+        },
+      },
+      "/runs": {
+        get: {
+          summary: "Runs you can read, newest first",
+          parameters: [{ name: "mechanismId", in: "query", schema: { type: "integer", minimum: 1 } }, { name: "limit", in: "query", schema: { type: "integer", minimum: 1, default: 100 } }],
+          responses: { 200: ok("{runs: [run]}"), ...errors(401) },
+        },
+        post: { summary: "Store a run and queue it (a mechanism document or a stored mechanism version, conditions, solver settings)", requestBody: { required: true, ...json("RunCreate") }, responses: { 202: ok("{run}; Location names the run"), ...errors(400, 401, 403, 404, 405, 413, 422) } },
+      },
+      "/runs/{id}": {
+        get: {
+          summary: "A run: status, conditions, solver settings, statistics; with ?series=1 the concentration series of a finished run",
+          parameters: [idParam(), { name: "series", in: "query", schema: { type: "string", enum: ["0", "1"] } }],
+          responses: { 200: ok("{run}"), ...errors(401, 404, 405) },
+        },
+      },
+      "/runs/{id}/cancel": { post: { summary: "Cancel a queued or running run (owner or admin)", parameters: [idParam()], responses: { 202: ok("{run}"), ...errors(401, 403, 404, 405, 409) } } },
+      "/runs/{id}/results.csv": {
+        get: {
+          summary: "A finished run's concentrations as CSV (time in s, concentrations in mol/L)",
+          parameters: [idParam()],
+          responses: { 200: { description: "CSV text", content: { "text/csv": { schema: { type: "string" } } } }, ...errors(401, 404, 409) },
+        },
+      },
+      "/datasets": {
+        get: { summary: "Measured datasets you can read", responses: { 200: ok("{datasets: [dataset]}"), ...errors(401) } },
+        post: {
+          summary: "Upload concentration–time data (CSV with a column mapping, units and temperature)",
+          requestBody: { required: true, ...json("DatasetCreate") },
+          responses: { 201: ok("{dataset}; Location names it"), ...errors(400, 401, 403, 405, 413, 422) },
+        },
+      },
+      "/datasets/{id}": { get: { summary: "A dataset with its rows, and the rows in SI units", parameters: [idParam()], responses: { 200: ok("{dataset}"), ...errors(401, 404, 405) } } },
+      "/openapi.json": { get: { summary: "This description (OpenAPI 3.1)", security: [], responses: { 200: ok("The OpenAPI document"), ...errors(405) } } },
+      "/docs": { get: { summary: "This description as a readable page (HTML)", security: [], responses: { 200: { description: "HTML page", content: { "text/html": { schema: { type: "string" } } } } } } },
       "/mechanisms/{id}/export": { get: { summary: "Download as a Saddlebook mechanism document", parameters: [idParam(), { name: "version", in: "query", schema: { type: "integer" } }], responses: { 200: ok("The document", "MechanismDocument"), ...errors(404) } } },
     },
   };

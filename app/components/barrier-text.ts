@@ -19,7 +19,7 @@ export function barrierRows(b: DocumentBarrier): Array<[string, string]> {
       rows.push(["ΔH‡", e(b.dH, b.unit)], ["ΔS‡", e(b.dS, b.entropyUnit)], ["standard state", standardStateText(b.standardState)]);
       break;
     case "thermal":
-      rows.push(["Ea", e(b.Ea, b.unit)], ["ΔS‡", e(b.dS, b.entropyUnit)], ["Δn‡", String(b.dn)], ["reference temperature of Ea and ΔS‡", `${b.T ?? 298.15} K`], ["standard state", standardStateText(b.standardState)]);
+      rows.push(["Ea", e(b.Ea, b.unit)], ["ΔS‡", e(b.dS, b.entropyUnit)], ["Δn‡", String(b.dn)], ["reference temperature of Ea and ΔS‡", `${b.T} K`], ["standard state", standardStateText(b.standardState)]);
       break;
     case "arrhenius":
       rows.push(["A", `${b.A} ${rate(b.rateUnit)}`], ["Ea", e(b.Ea, b.unit)], ["n", b.n === undefined ? null : String(b.n)], ["reference temperature T₀ of (T/T₀)ⁿ", b.T === undefined ? null : `${b.T} K`]);
@@ -48,7 +48,7 @@ export const THERMAL_REFERENCE_SPAN_K = 50;
  */
 export function thermalReferenceWarning(b: DocumentBarrier, T: number): string | null {
   if (b.form !== "thermal") return null;
-  const Tref = b.T ?? 298.15;
+  const Tref = b.T;
   if (!(Math.abs(T - Tref) > THERMAL_REFERENCE_SPAN_K)) return null;
   return `Ea and ΔS‡ refer to ${formatNumber(Tref, 5)} K; at ${formatNumber(T, 5)} K, ${formatNumber(Math.abs(T - Tref), 3)} K away, ΔH‡ and ΔS‡ are taken as constant, which is an extrapolation.`;
 }

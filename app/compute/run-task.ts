@@ -10,7 +10,7 @@ import {
   buildMechanism,
   degreeOfRateControl,
   massBalanceReport,
-  RATE_CONSTANT_UNITS,
+  rateConstantUnitLabel,
   simulate,
   yieldsAndSelectivity,
   type SimulateOptions,
@@ -206,9 +206,9 @@ export function runTask(input: RunTaskInput, hooks: RunHooks = {}): RunTaskResul
     step: st.id,
     T: c.T0,
     kf: rateConstants[r].kf(c.T0),
-    kfUnit: RATE_CONSTANT_UNITS[sumCoef(st.reactants) - 1] ?? "",
+    kfUnit: rateConstantUnitLabel(sumCoef(st.reactants)),
     kr: rateConstants[r].kr ? rateConstants[r].kr!(c.T0) : null,
-    krUnit: rateConstants[r].kr ? (RATE_CONSTANT_UNITS[sumCoef(st.products) - 1] ?? "") : null,
+    krUnit: rateConstants[r].kr ? (rateConstantUnitLabel(sumCoef(st.products))) : null,
   }));
 
   // ---- degree of rate control (2 extra runs per step; within what is left of the budget)

@@ -3,9 +3,8 @@
  * The body is read here; a request for more than RATES_INLINE_PAIRS rate constants is computed in a
  * compute thread (app/compute/api-pool.server.ts), so a large one never holds up pages.
  */
-import { requireApiUser } from "~/auth/api-auth.server";
-import { computeRateLimit } from "~/security/compute-limit.server";
 import { answerRates, RATES_INLINE_PAIRS, RATES_MAX_WALL_MS, requestedPairs } from "~/api/compute-rates.server";
+import { computeAction } from "~/api/compute-route.server";
 import { methodNotAllowed, readJsonBody } from "~/api/json-request.server";
 import { ratesInThread } from "~/compute/api-pool.server";
 import type { Route } from "./+types/api.v1.rates";
@@ -15,13 +14,11 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  if (request.method !== "POST") return methodNotAllowed(request);
-  const user = await requireApiUser(request); // token or session; a refusal is a thrown 401 JSON response
-  const limited = await computeRateLimit(user.id, "rates");
-  if (limited) return limited;
-  const body = await readJsonBody(request);
-  if (!body.ok) return body.response;
-  // A small request costs less than the trip to a thread: answered here. Larger ones go to the pool.
-  if (requestedPairs(body.value) <= RATES_INLINE_PAIRS) return answerRates(body.value, body.text);
-  return ratesInThread(body.text, request.signal, RATES_MAX_WALL_MS);
+  return computeAction(request, "rates", async (req) => {
+    const body = await readJsonBody(req);
+    if (!body.ok) return body.response;
+    // A small request costs less than the trip to a thread: answered here. Larger ones go to the pool.
+    if (requestedPairs(body.value) <= RATES_INLINE_PAIRS) return answerRates(body.value, body.text);
+    return ratesInThread(body.text, req.signal, RATES_MAX_WALL_MS);
+  });
 }

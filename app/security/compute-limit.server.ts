@@ -1,6 +1,6 @@
 /**
- * Rate limits on the compute API (rates and simulate), per user, over the whole server:
- * a sliding one-minute window. Defaults: 600 rate requests and 120 simulations per user
+ * Rate limits on the compute API, per user, over the whole server: a sliding one-minute
+ * window. Rates and activation parameters (regression) share one limit, simulate has its own. Defaults: 600 rate requests and 120 simulations per user
  * per minute; COMPUTE_RATES_PER_MINUTE and COMPUTE_SIMULATIONS_PER_MINUTE change them.
  * A refusal is a 429 with Retry-After and the API's error body.
  *

@@ -193,7 +193,7 @@ export function reactionText(step: Pick<DocumentStep, "reactants" | "products" |
         const label = (id !== null && species.get(id)?.label) || t.species;
         return t.coef === 1 ? label : `${t.coef} ${label}`;
       })
-      .join(" + ");
+      .join(" + ") || "∅";
   return `${side(step.reactants)} ${step.reversible ? "⇌" : "→"} ${side(step.products)}`;
 }
 

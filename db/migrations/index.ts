@@ -13,6 +13,8 @@ import * as m0300 from "./0300_workbench";
 import * as m0310 from "./0310_workbench_mechanism_links";
 import * as m0320 from "./0320_run_server_process";
 import * as m0102 from "./0102_ended_sessions";
+import * as m0230 from "./0230_open_and_fractional_steps";
+import * as m0240 from "./0240_thermal_reference_temperature";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -29,6 +31,8 @@ const list: Array<[string, Migration]> = [
   ["0310_workbench_mechanism_links", m0310],
   ["0320_run_server_process", m0320],
   ["0102_ended_sessions", m0102],
+  ["0230_open_and_fractional_steps", m0230],
+  ["0240_thermal_reference_temperature", m0240],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

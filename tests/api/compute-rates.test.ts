@@ -5,6 +5,7 @@
  */
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { apiCaller } from "../support/api-auth-stand-in";
+import { postJson } from "../support/api-call";
 import { action, loader } from "../../app/routes/api.v1.rates";
 
 // The API's authentication is replaced by the tests' stand-in: signed in as an author by
@@ -20,15 +21,8 @@ const H = 6.62607015e-34; // J s
 const N_A = 6.02214076e23; // 1/mol
 const R = K_B * N_A; // J/(mol K)
 
-type Args = Parameters<typeof action>[0];
 const URL_ = "http://localhost/api/v1/rates";
-
-async function post(body: unknown, raw = false): Promise<{ status: number; json: any; text: string }> {
-  const request = new Request(URL_, { method: "POST", headers: { "Content-Type": "application/json" }, body: raw ? (body as string) : JSON.stringify(body) });
-  const res = (await action({ request, params: {}, context: {} } as unknown as Args).catch((thrown: unknown) => thrown)) as Response;
-  const text = await res.text();
-  return { status: res.status, json: JSON.parse(text), text };
-}
+const post = (body: unknown, raw = false) => postJson(action, URL_, body, raw);
 
 const uni = (barrier: Record<string, unknown>, extra: Record<string, unknown> = {}) => ({
   id: "s1",
@@ -119,7 +113,7 @@ describe("POST /api/v1/rates: bad requests get the one error shape", () => {
   });
 
   it("PUT to the action is 405 too", async () => {
-    const res = (await action({ request: new Request(URL_, { method: "PUT", body: "{}" }), params: {}, context: {} } as unknown as Args)) as Response;
+    const res = (await action({ request: new Request(URL_, { method: "PUT", body: "{}" }), params: {}, context: {} } as unknown as Parameters<typeof action>[0])) as Response;
     expect(res.status).toBe(405);
   });
 

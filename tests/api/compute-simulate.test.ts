@@ -65,6 +65,29 @@ function expectErrorShape(json: any) {
   expect(typeof json.error.message).toBe("string");
 }
 
+describe("POST /api/v1/simulate with open steps", () => {
+  it("accepts a zero-order source and a sink as written: A(t) = k0/k1 + (A0 − k0/k1)·e^(−k1·t) (linear ODE, textbook solution)", async () => {
+    const rateUnit = { concentration: "mol/L", time: "s" };
+    const mechanism = {
+      format: "saddlebook.mechanism",
+      version: 1,
+      about: { name: "source and sink (test)" },
+      species: [{ id: "A" }],
+      steps: [
+        { id: "in", reactants: [], products: [{ species: "A", coef: 1 }], reversible: false, barrier: { form: "arrhenius", A: 0.003, rateUnit, Ea: 0, unit: "kJ/mol" } },
+        { id: "out", reactants: [{ species: "A", coef: 1 }], products: [], reversible: false, barrier: { form: "arrhenius", A: 0.05, rateUnit, Ea: 0, unit: "kJ/mol" } },
+      ],
+    };
+    const conditions = { temperature: { value: 25, unit: "°C" }, initial: { A: { value: 10, unit: "mmol/L" } }, endTime: { value: 60, unit: "s" }, output: { grid: "linear", points: 7 } };
+    const { status, json } = await post({ mechanism, conditions, solver: { rtol: 1e-9, atol: 1e-14 } });
+    expect(status).toBe(200);
+    expect(json.rateConstants[0].kForward.unit).toBe("mol L⁻¹ s⁻¹");
+    const t: number[] = json.times.values;
+    t.forEach((ti, i) => expect(json.concentrations.species.A[i]).toBeCloseTo(0.06 + (0.01 - 0.06) * Math.exp(-0.05 * ti), 9));
+    expect(json.warnings.join(" ")).toMatch(/zero-order source/);
+  });
+});
+
 describe("POST /api/v1/simulate", () => {
   it("A → B matches [A]₀·exp(−kt) with k = (k_B T/h)·exp(−ΔG‡/RT)", async () => {
     const T = 298.15;

@@ -7,6 +7,7 @@ import type { Actor } from "../../app/auth/policy.server";
 import * as api from "../../app/api/library-api.server";
 import { openApiDocument } from "../../app/api/library-openapi.server";
 import { IMPORT_LIMIT_BYTES } from "../../db/access/mechanisms.server";
+import { readFileSync } from "node:fs";
 
 let t: TestDatabase;
 const A: Record<string, Actor> = {};
@@ -65,6 +66,13 @@ describe("steps API", () => {
     expect((await json(bad)).error.message).toMatch(/line 2/);
     const unknown = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: { ...body.barrier, colour: 1 } }));
     expect((await json(unknown)).error.fields["barrier.colour"]).toMatch(/Unknown field/);
+    // The thermal form's reference temperature is required: no 298.15 K is assumed.
+    const thermal = { form: "thermal", Ea: 70, dS: -100, dn: -1, unit: "kJ/mol", entropyUnit: "J/(mol K)", standardState: "1M" };
+    const noT = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: thermal }));
+    expect(noT.status).toBe(400);
+    expect(Object.keys((await json(noT)).error.fields)).toContain("barrier.T");
+    const withT = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, label: "API thermal", barrier: { ...thermal, T: 330 } }));
+    expect(withT.status).toBe(201);
     const unit = await api.stepsCreate(t.db, A.author, send("POST", "/steps", { ...body, barrier: { ...body.barrier, unit: "kcal" } }));
     expect(Object.keys((await json(unit)).error.fields)).toContain("barrier.unit");
     const viewer = await api.stepsCreate(t.db, A.viewer, send("POST", "/steps", body));
@@ -143,5 +151,17 @@ describe("OpenAPI description", () => {
     const text = JSON.stringify(doc);
     for (const m of text.matchAll(/"\$ref":"#\/components\/schemas\/([^"]+)"/g)) expect(doc.components.schemas, m[1]).toHaveProperty(m[1]);
     expect(JSON.stringify(doc.components.schemas.StepInput)).toContain("kcal/mol");
+  });
+
+  it("describes every API route of app/routes.ts (all but the not-found catch-all)", () => {
+    const doc = openApiDocument() as { paths: Record<string, unknown> };
+    const table = readFileSync(new URL("../../app/routes.ts", import.meta.url), "utf8");
+    const apiPaths = [...table.matchAll(/route\("api\/v1(\/[^"]*)"/g)].map((m) => m[1]).filter((p) => p !== "/*");
+    expect(apiPaths.length).toBeGreaterThan(25);
+    const described = Object.keys(doc.paths);
+    for (const p of apiPaths) expect(described, p).toContain(p.replace(/:([A-Za-z]+)/g, "{$1}"));
+    // and nothing is described that the route table does not serve
+    const served = new Set(apiPaths.map((p) => p.replace(/:([A-Za-z]+)/g, "{$1}")));
+    for (const p of described) expect(served.has(p), p).toBe(true);
   });
 });

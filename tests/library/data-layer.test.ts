@@ -72,6 +72,44 @@ afterAll(async () => {
   await t?.drop();
 });
 
+describe("library steps as written", () => {
+  const arrhenius = (A: number) => ({ form: "arrhenius" as const, A, rateUnit: { concentration: "mol/L" as const, time: "s" as const }, Ea: 0, unit: "kJ/mol" as const });
+
+  it("stores a zero-order source, a sink, fractional coefficients and a species on both sides unchanged", async () => {
+    const source = await createStep(t.db, A.author, stepInput({ label: undefined, reactants: [], products: [{ speciesId: sp.A, coef: 1 }], barrier: arrhenius(7e-4) }));
+    const sink = await createStep(t.db, A.author, stepInput({ label: undefined, reactants: [{ speciesId: sp.A, coef: 2 }], products: [], barrier: arrhenius(3) }));
+    const frac = await createStep(
+      t.db,
+      A.author,
+      stepInput({ label: undefined, reactants: [{ speciesId: sp.B, coef: 1.5 }], products: [{ speciesId: sp.B, coef: 0.25 }, { speciesId: sp.C, coef: 77.27 }], barrier: arrhenius(2) }),
+    );
+    const s = await getStep(t.db, A.author, source.stepId);
+    expect(s.version.content.reactants).toEqual([]);
+    expect(s.version.label).toBe("∅ → acetic anhydride");
+    const k = await getStep(t.db, A.author, sink.stepId);
+    expect(k.version.content.products).toEqual([]);
+    const f = await getStep(t.db, A.author, frac.stepId);
+    expect(f.version.content.products).toEqual([{ species: `s${sp.B}`, coef: 0.25 }, { species: `s${sp.C}`, coef: 77.27 }]);
+    const row = await t.db("step_versions").where({ id: frac.versionId }).first("molecularity");
+    expect(row.molecularity).toBe(1.5);
+    const terms = await t.db("step_version_terms").where({ step_version_id: frac.versionId }).orderBy(["side", "position"]).pluck("coef");
+    expect(terms).toEqual([1.5, 0.25, 77.27]); // side "r" sorts before "p" (enum order)
+    const src = await t.db("step_versions").where({ id: source.versionId }).first("molecularity");
+    expect(src.molecularity).toBe(0);
+  });
+
+  it("refuses a step with no species at all and a reversible source, with field messages", async () => {
+    await expect(createStep(t.db, A.author, stepInput({ reactants: [], products: [] }))).rejects.toBeInstanceOf(InputError);
+    const e = await createStep(
+      t.db,
+      A.author,
+      stepInput({ reactants: [], reversible: true, reactionThermo: { form: "dG", dG: -5, unit: "kJ/mol", T: 298.15, standardState: "1M" } }),
+    ).catch((x: unknown) => x);
+    expect(e).toBeInstanceOf(InputError);
+    expect((e as InputError).fields.reversible).toMatch(/cannot be reversible/);
+  });
+});
+
 describe("library steps", () => {
   it("creates version 1 as a draft, stores user units and SI, and derives ΔG‡ and k", async () => {
     const r = await createStep(t.db, A.author, stepInput({ barrier: { form: "dG", dG: 19.12, unit: "kcal/mol", T: 298.15, standardState: "1M" } }));

@@ -76,6 +76,12 @@ describe("unit conversion into the engine", () => {
     expect(s.barrier.dG / 1000).toBeCloseTo(96.48533212, 8);
   });
 
+  it("the thermal form must state T (the temperature at which Ea was determined): no default is assumed", () => {
+    const r = validateMechanismDocument(minimalDoc({ form: "thermal", Ea: 90, dS: -5, dn: 0, unit: "kJ/mol", entropyUnit: "J/(mol K)", standardState: "1bar" }));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.error.issues.some((i) => i.path === "steps[0].barrier.T")).toBe(true);
+  });
+
   it("J/mol passes through unchanged and the thermal form keeps Δn‡ and T", () => {
     const s = engineStep(minimalDoc({ form: "thermal", Ea: 90000, dS: -5, dn: 0, unit: "J/mol", entropyUnit: "J/(mol K)", standardState: "1bar", T: 350 }));
     expect(s.barrier).toEqual({ form: "thermal", Ea: 90000, dS: -5, dn: 0, standardState: "1bar", Tref: 350 });

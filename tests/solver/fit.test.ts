@@ -118,7 +118,7 @@ describe("shiftBarrier", () => {
     { form: "dG", dG: 80e3, Tref: 298.15, standardState: "1M" },
     { form: "dG", dG: 80e3, dH: 70e3, Tref: 298.15, standardState: "1bar" },
     { form: "dHdS", dH: 70e3, dS: -30, standardState: "1M" },
-    { form: "thermal", Ea: 75e3, dS: -30, dn: 0, standardState: "1M" },
+    { form: "thermal", Ea: 75e3, dS: -30, dn: 0, standardState: "1M", Tref: 298.15 },
     { form: "arrhenius", A: 1e12, Ea: 75e3, n: 0.5, Tref: 298 },
     { form: "measured", k: 3e-3, T: 310 },
     { form: "measured", k: 3e-3, T: 310, Ea: 60e3 },

@@ -40,13 +40,14 @@ function numericEa(s: StepKinetics, T: number): number {
 }
 
 describe("molecularity", () => {
-  it("sums reactant coefficients and refuses more than three", () => {
+  it("sums reactant coefficients (0 for a source, fractional allowed) and refuses more than three", () => {
     expect(get(molecularity({ reactants: ter }))).toBe(3);
     expect(errCode(molecularity({ reactants: [{ species: "A", coef: 4 }] }))).toBe("MOLECULARITY");
-    expect(errCode(molecularity({ reactants: [] }))).toBe("MOLECULARITY");
-    const frac = molecularity({ reactants: [{ species: "A", coef: 1.5 }] }, "steps[2]");
-    expect(errCode(frac)).toBe("STOICHIOMETRY");
-    expect(!frac.ok && frac.error.path).toBe("steps[2].reactants[0].coef");
+    expect(get(molecularity({ reactants: [] }))).toBe(0);
+    expect(get(molecularity({ reactants: [{ species: "A", coef: 1.5 }] }))).toBe(1.5);
+    const neg = molecularity({ reactants: [{ species: "A", coef: -0.5 }] }, "steps[2]");
+    expect(errCode(neg)).toBe("STOICHIOMETRY");
+    expect(!neg.ok && neg.error.path).toBe("steps[2].reactants[0].coef");
   });
 });
 
@@ -195,7 +196,7 @@ describe("textbook relations", () => {
       [{ form: "dG", dG: 85e3, Tref: 298.15, standardState: "1M" }, 1],
       [{ form: "dG", dG: 85e3, dH: 70e3, Tref: 298.15, standardState: "1atm" }, 2],
       [{ form: "dHdS", dH: 40e3, dS: -120, standardState: "1bar" }, 3],
-      [{ form: "thermal", Ea: 60e3, dS: -90, dn: -1, standardState: "1M" }, 2],
+      [{ form: "thermal", Ea: 60e3, dS: -90, dn: -1, standardState: "1M", Tref: 298.15 }, 2],
       [{ form: "arrhenius", A: 3e9, Ea: 45e3, n: 1.7, Tref: 298 }, 2],
       [{ form: "measured", k: 2e-3, T: 298.15, Ea: 75e3 }, 1],
       [{ form: "measured", k: 2e-3, T: 298.15 }, 1],
@@ -294,10 +295,17 @@ describe("bad input → typed errors", () => {
     ["ΔS‡ absurd", step({ form: "dHdS", dH: 5e4, dS: 5000, standardState: "1M" }), 300, "BARRIER_RANGE", "step.barrier.dS"],
     ["Tref ≤ 0", step({ form: "dG", dG: 8e4, Tref: -3, standardState: "1M" }), 300, "TEMPERATURE", "step.barrier.Tref"],
     ["unknown state", step({ form: "dG", dG: 8e4, Tref: 300, standardState: "2M" as StandardState }), 300, "UNKNOWN_STANDARD_STATE"],
-    ["Δn‡ mismatch", step({ form: "thermal", Ea: 8e4, dS: 0, dn: 0, standardState: "1bar" }, 2), 300, "THERMAL_DN", "step.barrier.dn"],
+    ["Δn‡ mismatch", step({ form: "thermal", Ea: 8e4, dS: 0, dn: 0, standardState: "1bar", Tref: 300 }, 2), 300, "THERMAL_DN", "step.barrier.dn"],
     ["frequency absurd", { ...ok1, imagFreq: 1e6 }, 300, "FREQUENCY", "step.imagFreq"],
+    [
+      "thermal form without Tref (none is assumed)",
+      step({ form: "thermal", Ea: 8e4, dS: 0, dn: -1, standardState: "1bar" } as unknown as Barrier, 2),
+      300,
+      "MISSING_TREF",
+      "step.barrier.Tref",
+    ],
     ["molecularity 4", { ...ok1, reactants: [{ species: "A", coef: 2 }, { species: "B", coef: 2 }] }, 300, "MOLECULARITY", "step.reactants"],
-    ["no reactants", { ...ok1, reactants: [] }, 300, "MOLECULARITY"],
+    ["non-finite coefficient", { ...ok1, reactants: [{ species: "A", coef: Number.NaN }] }, 300, "STOICHIOMETRY", "step.reactants[0].coef"],
     ["bad coefficient", { ...ok1, reactants: [{ species: "A", coef: 0 }] }, 300, "STOICHIOMETRY", "step.reactants[0].coef"],
     ["overflow", step({ form: "dG", dG: -50e3, Tref: 5, standardState: "1M" }), 5, "OVERFLOW"],
     ["unknown form", step({ form: "guess" } as unknown as Barrier), 300, "EMPTY_INPUT", "step.barrier.form"],
@@ -329,5 +337,37 @@ describe("derived forms at rounding level", () => {
   it("gives ΔS‡ = 0 for a ΔG‡-only bimolecular step at its reference temperature", () => {
     const conv = get(convertBarrier(step({ form: "dG", dG: 55.4e3, Tref: 298.15, standardState: "1M" }, 2), 298.15));
     expect(conv.dS).toBe(0);
+  });
+});
+
+describe("Eyring law for a zero-order source and a fractional order (k = κ(k_BT/h)(c°)^(1−m)e^(−ΔG‡/RT))", () => {
+  const T = 310;
+  const dG = 90e3;
+  const RT = R_GAS * T;
+  const source = (state: StandardState): StepKinetics => ({ id: "src", reactants: [], products: [{ species: "P", coef: 1 }], reversible: false, barrier: { form: "dG", dG, Tref: T, standardState: state } });
+  const half = (state: StandardState): StepKinetics => ({ id: "half", reactants: [{ species: "A", coef: 1.5 }], products: [{ species: "P", coef: 1 }], reversible: false, barrier: { form: "dG", dG, Tref: T, standardState: state } });
+
+  it("m = 0: k in mol L⁻¹ s⁻¹ carries one factor c° of the barrier's standard state", () => {
+    const c1bar = get(standardConcentration("1bar", T));
+    const k = get(rateConstant(source("1bar"), T));
+    expect(k.units).toBe("mol L⁻¹ s⁻¹");
+    expect(k.k / (KB_OVER_H * T * c1bar * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+    // the same barrier in 1 mol/L gives c° = 1
+    expect(get(rateConstant(source("1M"), T)).k / (KB_OVER_H * T * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+  });
+
+  it("m = 0 and m = 1.5: the standard-state shift (m−1)·RT·ln(c°_from/c°_to) reproduces k in the other state", () => {
+    for (const [mk, m] of [[source, 0], [half, 1.5]] as const) {
+      const shift = get(standardStateShift("1bar", "1M", m, T));
+      const c = get(convertBarrier({ ...mk("1bar"), targetStandardState: "1M" }, T));
+      expect(c.standardStateShift).toBeCloseTo(shift, 9);
+      expect(c.dG).toBeCloseTo(dG + shift, 6);
+      // k is the same physical number whichever state the barrier was given in
+      const kFrom1M = get(rateConstant(mk("1M"), T));
+      const kBack = KB_OVER_H * T * Math.exp(-(dG + shift) / RT);
+      expect(kFrom1M.k / (KB_OVER_H * T * Math.exp(-dG / RT))).toBeCloseTo(1, 12);
+      expect(c.k / kBack).toBeCloseTo(1, 10);
+    }
+    expect(get(rateConstant(half("1M"), T)).units).toBe("L^0.5 mol^-0.5 s⁻¹");
   });
 });

@@ -159,3 +159,17 @@ describe("rate constant units", () => {
     expect(num(rateConstantToSI(5, 1, "umol/L", "h"))).toBeCloseTo(5 / 3600, 14);
   });
 });
+
+describe("rate-constant units for any reaction order", () => {
+  it("names (mol/L)^(1−m)·s⁻¹ for a source (m = 0) and fractional orders", () => {
+    expect(val(rateConstantUnit(0))).toBe("mol L⁻¹ s⁻¹");
+    expect(val(rateConstantUnit(1.5))).toBe("L^0.5 mol^-0.5 s⁻¹");
+    expect(val(rateConstantUnit(0.5))).toBe("mol^0.5 L^-0.5 s⁻¹");
+    expect(!rateConstantUnit(-1).ok).toBe(true);
+  });
+  it("converts a zero-order k: 1 mmol L⁻¹ min⁻¹ = 1e-3/60 mol L⁻¹ s⁻¹ (definition of the units)", () => {
+    expect(val(rateConstantToSI(1, 0, "mmol/L", "min")) as number).toBeCloseTo(1e-3 / 60, 18);
+    // m = 1.5: (mmol/L)^(−0.5) = (1e-3 mol/L)^(−0.5) → k·1e-3^(−0.5)
+    expect(val(rateConstantToSI(1, 1.5, "mmol/L", "s")) as number).toBeCloseTo(1e-3 ** -0.5, 9);
+  });
+});

@@ -2,6 +2,8 @@ import { describe, expect, it } from "vitest";
 import { expm, matrix, multiply } from "mathjs";
 import { watchDownwardCrossing } from "../../solver/output-grid.ts";
 import { k, model, run, rx, sp } from "./mechanism-helpers.ts";
+import { compileMechanism } from "../../solver/model.ts";
+import { simulate } from "../../solver/simulate.ts";
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
 
@@ -112,5 +114,45 @@ describe("simulate against analytic solutions", () => {
     const w = watchDownwardCrossing(2, 0, 0.5);
     run(m, { rateConstants: [{ kf: k(0.3) }], initial: { A: 1 }, tEnd: 10, onStep: w.onStep, rtol: 1e-8 });
     expect(rel(w.time!, Math.LN2 / 0.3)).toBeLessThan(1e-6);
+  });
+});
+
+describe("open and fractional steps against analytic solutions", () => {
+  const base = { temperature: { kind: "isothermal" as const, T: 298.15 }, rtol: 1e-10, atol: 1e-14, grid: { kind: "times" as const, times: [0, 0.5, 2, 5] } };
+  const kc = (v: number) => ({ kf: () => v });
+
+  it("∅ → A (k0), A → ∅ (k1): A(t) = k0/k1 + (A0 − k0/k1)·e^(−k1·t) (linear ODE, textbook solution)", () => {
+    const mr = compileMechanism({ species: [{ id: "A" }], reactions: [
+      { id: "in", reactants: [], products: [{ species: "A", coef: 1 }], reversible: false },
+      { id: "out", reactants: [{ species: "A", coef: 1 }], products: [], reversible: false },
+    ] });
+    if (!mr.ok) throw new Error(mr.error.message);
+    const r = simulate(mr.value, { ...base, rateConstants: [kc(0.3), kc(1.2)], initial: { A: 1 }, tEnd: 5 });
+    if (!r.ok) throw new Error(r.error.message);
+    r.value.times.forEach((t, k) => expect(r.value.conc[0][k]).toBeCloseTo(0.25 + 0.75 * Math.exp(-1.2 * t), 8));
+  });
+
+  it("A + B → 2A: logistic growth A(t) = N·A0·e^(kNt)/(N − A0 + A0·e^(kNt)), N = A0 + B0 (textbook autocatalysis)", () => {
+    const mr = compileMechanism({ species: [{ id: "A" }, { id: "B" }], reactions: [
+      { id: "auto", reactants: [{ species: "A", coef: 1 }, { species: "B", coef: 1 }], products: [{ species: "A", coef: 2 }], reversible: false },
+    ] });
+    if (!mr.ok) throw new Error(mr.error.message);
+    const A0 = 0.01, N = 1, k = 2;
+    const r = simulate(mr.value, { ...base, rateConstants: [kc(k)], initial: { A: A0, B: N - A0 }, tEnd: 5 });
+    if (!r.ok) throw new Error(r.error.message);
+    r.value.times.forEach((t, i) => {
+      const e = Math.exp(k * N * t);
+      expect(r.value.conc[0][i]).toBeCloseTo((N * A0 * e) / (N - A0 + A0 * e), 8);
+    });
+  });
+
+  it("1.5 A → P (order 1.5): A^(−1/2) = A0^(−1/2) + 0.75·k·t (separable ODE dA/dt = −1.5·k·A^1.5)", () => {
+    const mr = compileMechanism({ species: [{ id: "A" }, { id: "P" }], reactions: [
+      { id: "r", reactants: [{ species: "A", coef: 1.5 }], products: [{ species: "P", coef: 1 }], reversible: false },
+    ] });
+    if (!mr.ok) throw new Error(mr.error.message);
+    const r = simulate(mr.value, { ...base, rateConstants: [kc(0.8)], initial: { A: 2 }, tEnd: 5 });
+    if (!r.ok) throw new Error(r.error.message);
+    r.value.times.forEach((t, i) => expect(r.value.conc[0][i]).toBeCloseTo(1 / (2 ** -0.5 + 0.75 * 0.8 * t) ** 2, 8));
   });
 });

@@ -62,7 +62,6 @@ describe("thermal form: the temperature its Ea and ΔS‡ refer to", () => {
 
   it("states the reference temperature", () => {
     expect(barrierRows(thermal)).toContainEqual(["reference temperature of Ea and ΔS‡", "350 K"]);
-    expect(barrierRows({ ...thermal, T: undefined })).toContainEqual(["reference temperature of Ea and ΔS‡", "298.15 K"]);
   });
 
   it("warns more than 50 K from it, and not within", () => {

@@ -69,7 +69,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
       ts.filter((t) => byId.has(t.speciesId)).map((t) => ({ species: { label: byId.get(t.speciesId)!.label, formula: byId.get(t.speciesId)!.formula }, coef: Number(t.coef) || 1 }));
     const r = side(f.reactants);
     const p = side(f.products);
-    return r.length && p.length ? balanceOf(r, p) : null;
+    return r.length || p.length ? balanceOf(r, p) : null;
   }, [f.reactants, f.products, byId]);
 
   const speciesFetcher = useFetcher<{ ok: boolean; message: string }>();
@@ -171,6 +171,10 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
             {sideEditor("reactants", "Reactants", 3)}
             {sideEditor("products", "Products", 10)}
           </div>
+          <p className="text-xs text-ink-600">
+            Coefficients may be fractional (a reactant's coefficient is its order in the rate law). Leave the reactants empty for a zero-order source (k in mol L⁻¹ s⁻¹) or the
+            products empty for a sink; both are irreversible and reported as open to the surroundings.
+          </p>
           {balance && (
             <p className={`text-sm ${balance.state === "unbalanced" ? "text-brick-700" : "text-ink-600"}`} role={balance.state === "unbalanced" ? "alert" : "status"} data-testid="balance">
               {balance.message}
@@ -248,8 +252,8 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
               <>
                 {numField("Ea", "Ea", "barrier.Ea", eu)}
                 {numField("dS", "ΔS‡", "barrier.dS", su)}
-                {numField("dn", "Δn‡ (0, −1, −2)", "barrier.dn")}
-                {numField("Tref", "reference temperature of Ea and ΔS‡", "barrier.T", tUnit)}
+                {numField("dn", "Δn‡ = 1 − m (0, −1, −2)", "barrier.dn")}
+                {numField("Tref", "reference temperature of Ea and ΔS‡ (required)", "barrier.T", tUnit)}
               </>
             )}
             {f.form === "arrhenius" && (

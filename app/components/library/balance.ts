@@ -17,6 +17,10 @@ export interface BalanceResult {
 }
 
 export function balanceOf(reactants: Array<{ species: BalanceSpecies; coef: number }>, products: Array<{ species: BalanceSpecies; coef: number }>): BalanceResult {
+  if (reactants.length === 0 || products.length === 0) {
+    const what = reactants.length === 0 ? "a zero-order source: matter enters the mechanism" : "a sink: matter leaves the mechanism";
+    return { state: "unbalanced", message: `Not balanced by design, ${what}.` };
+  }
   const missing = [...reactants, ...products].filter((t) => !t.species.formula).map((t) => t.species.label);
   if (missing.length > 0) {
     return { state: "unknown", message: `Balance not checked: no formula for ${[...new Set(missing)].join(", ")}.` };

@@ -171,8 +171,8 @@ export function buildStepInput(f: StepFormState): BuiltForm {
       const Ea = num("barrier.Ea", f.Ea, true);
       const dS = num("barrier.dS", f.dS, true);
       const dn = num("barrier.dn", f.dn, true);
-      const T = toK("barrier.T", f.Tref, false);
-      if (Ea !== undefined && dS !== undefined && dn !== undefined) barrier = { form: "thermal", Ea, dS, dn, unit: f.eu, entropyUnit: f.su, standardState: f.standardState, ...(T ? { T } : {}) };
+      const T = toK("barrier.T", f.Tref, true);
+      if (Ea !== undefined && dS !== undefined && dn !== undefined && T !== undefined) barrier = { form: "thermal", Ea, dS, dn, unit: f.eu, entropyUnit: f.su, standardState: f.standardState, T };
       break;
     }
     case "arrhenius": {

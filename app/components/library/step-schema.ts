@@ -17,6 +17,7 @@ import {
   StepSchema,
 } from "../../../solver/exchange-format";
 import { LayoutSchema, SmallJsonObject } from "../workbench/layout-schema";
+import { MAX_COEF } from "../../../solver/barrier-forms";
 
 export const STEP_STATUSES = ["draft", "proposed", "approved", "deprecated"] as const;
 export type StepStatus = (typeof STEP_STATUSES)[number];
@@ -34,15 +35,22 @@ export const speciesIdOfKey = (key: string): number | null => {
 
 const SpeciesRef = z.strictObject({
   speciesId: z.int().positive().meta({ description: "Id of a species in the library's species table." }),
-  coef: z.int().min(1).max(20).meta({ description: "Stoichiometric coefficient." }),
+  coef: z
+    .number()
+    .positive("A stoichiometric coefficient must be positive.")
+    .max(MAX_COEF, `A stoichiometric coefficient must be at most ${MAX_COEF}.`)
+    .meta({ description: "Stoichiometric coefficient; fractional values are allowed (a reactant's coefficient is its order in the rate law)." }),
 });
 
-/** A new library step or a new version of one. */
-export const StepInputSchema = z
+/** The fields of a library step as entered (StepInputSchema adds the cross-field checks). */
+const stepFields = z
   .strictObject({
     label: z.string().trim().max(500).optional().meta({ description: "Short display name of the step." }),
-    reactants: z.array(SpeciesRef).min(1, "A step needs at least one reactant.").max(3, "At most three reactants (termolecular)."),
-    products: z.array(SpeciesRef).min(1, "A step needs at least one product.").max(10),
+    reactants: z
+      .array(SpeciesRef)
+      .max(3, "At most three reactants (termolecular).")
+      .meta({ description: "Reactants; none for a zero-order source. A species may also be a product (autocatalysis)." }),
+    products: z.array(SpeciesRef).max(20).meta({ description: "Products; none for a sink." }),
     reversible: z.boolean().default(false),
     barrier: BarrierSchema,
     reactionThermo: ReactionThermoSchema.optional(),
@@ -67,14 +75,40 @@ export const StepInputSchema = z
       .meta({ description: "Units the step is shown in (values are stored in SI)." }),
     illustrative: z.boolean().optional(),
     message: z.string().trim().max(1000).optional().meta({ description: "What changed, for the version history." }),
-  })
+  });
+
+/**
+ * A step needs a species on one side at least; a source or a sink cannot be reversible. Runs
+ * also when other fields have problems (as long as both sides are lists), so the form shows
+ * every problem at once.
+ */
+const sidesAreLists = {
+  when: (p: { value: unknown }) => {
+    const v = p.value as { reactants?: unknown; products?: unknown } | null;
+    return !!v && Array.isArray(v.reactants) && Array.isArray(v.products);
+  },
+};
+function checkSides(v: { reactants: unknown[]; products: unknown[]; reversible?: boolean }, ctx: z.RefinementCtx): void {
+  if (v.reactants.length === 0 && v.products.length === 0) {
+    ctx.addIssue({ code: "custom", path: ["reactants"], message: "A step needs at least one reactant or one product." });
+  } else if (v.reversible && (v.reactants.length === 0 || v.products.length === 0)) {
+    ctx.addIssue({ code: "custom", path: ["reversible"], message: "A source (no reactants) or a sink (no products) cannot be reversible; enter any return flow as a step of its own." });
+  }
+}
+
+/** A new library step or a new version of one. */
+export const StepInputSchema = stepFields
+  .superRefine(checkSides, sidesAreLists)
   .meta({ id: "StepInput", description: "A library step as entered, values in the units named beside them." });
 export type StepInput = z.input<typeof StepInputSchema>;
 export type StepInputParsed = z.output<typeof StepInputSchema>;
 
-export const StepEditSchema = StepInputSchema.extend({
-  baseVersion: z.int().positive().meta({ description: "Version number the edit was based on (409 when stale)." }),
-}).meta({ id: "StepEdit" });
+export const StepEditSchema = stepFields
+  .extend({
+    baseVersion: z.int().positive().meta({ description: "Version number the edit was based on (409 when stale)." }),
+  })
+  .superRefine(checkSides, sidesAreLists)
+  .meta({ id: "StepEdit" });
 
 export const ReviewSchema = z
   .strictObject({

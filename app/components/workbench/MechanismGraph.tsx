@@ -1,6 +1,6 @@
 /**
  * The mechanism as a graph (@xyflow/react): species nodes, and each elementary step as a node of
- * its own between its reactants and products; edges carry stoichiometric coefficients above 1;
+ * its own between its reactants and products; edges carry stoichiometric coefficients other than 1;
  * reversible steps are marked ⇌ and their edges arrowed both ways; each step node shows its
  * barrier (ΔG‡ at T, 1 mol/L) and k at T. A new mechanism is laid out with dagre (left to
  * right); dragged positions are reported for saving with the mechanism's layout.
@@ -113,10 +113,10 @@ export function MechanismGraph({
     for (const st of doc.steps) {
       const both = st.reversible ? { markerStart: { type: MarkerType.ArrowClosed, color: "#6f889d" } } : {};
       st.reactants.forEach((t) =>
-        out.push({ id: `e:${st.id}:r:${t.species}`, source: `s:${t.species}`, target: `r:${st.id}`, label: t.coef > 1 ? String(t.coef) : undefined, markerEnd: { type: MarkerType.ArrowClosed, color: "#6f889d" }, style: { stroke: "#6f889d" }, ...both }),
+        out.push({ id: `e:${st.id}:r:${t.species}`, source: `s:${t.species}`, target: `r:${st.id}`, label: t.coef !== 1 ? String(t.coef) : undefined, markerEnd: { type: MarkerType.ArrowClosed, color: "#6f889d" }, style: { stroke: "#6f889d" }, ...both }),
       );
       st.products.forEach((t) =>
-        out.push({ id: `e:${st.id}:p:${t.species}`, source: `r:${st.id}`, target: `s:${t.species}`, label: t.coef > 1 ? String(t.coef) : undefined, markerEnd: { type: MarkerType.ArrowClosed, color: "#a65a2b" }, style: { stroke: "#a65a2b" }, ...both }),
+        out.push({ id: `e:${st.id}:p:${t.species}`, source: `r:${st.id}`, target: `s:${t.species}`, label: t.coef !== 1 ? String(t.coef) : undefined, markerEnd: { type: MarkerType.ArrowClosed, color: "#a65a2b" }, style: { stroke: "#a65a2b" }, ...both }),
       );
     }
     return out;

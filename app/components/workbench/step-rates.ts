@@ -77,7 +77,7 @@ export interface ProfilePoint {
 export function freeEnergyProfile(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): ProfilePoint[] {
   const byId = new Map(numbers.map((n) => [n.id, n]));
   const names = namesOf(doc);
-  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ");
+  const side = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ") || "∅";
   const pts: ProfilePoint[] = [];
   let G: number | null = 0;
   pathway.forEach((id, k) => {
