@@ -121,7 +121,8 @@ describe.skipIf(!process.env.APP_URL)("request bodies and the production server'
 
   it("answers a streamed body over the server-wide limit with 413 on a page form and on the API", async () => {
     for (const path of ["/sign-in", "/api/v1/simulate", "/register"]) {
-      const a = await postChunked(app!.url + path, { Authorization: `Bearer ${viewerToken}`, "Content-Type": "application/x-www-form-urlencoded" }, SERVER_LIMIT + 256 * 1024);
+      const type = path.startsWith("/api/") ? "application/json" : "application/x-www-form-urlencoded";
+      const a = await postChunked(app!.url + path, { Authorization: `Bearer ${viewerToken}`, "Content-Type": type }, SERVER_LIMIT + 256 * 1024);
       expect(a.status, path).toBe(413);
       // The simulate API's own 1 MB limit may answer first; the page forms reach the server's.
       expect(JSON.parse(a.body).error.message).toMatch(path.startsWith("/api/") ? /larger than the/ : /larger than the server's limit/);
