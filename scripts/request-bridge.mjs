@@ -70,12 +70,15 @@ function bodyStream(req, res, limit, onOverLimit) {
   let size = 0;
   let finished = false;
   let controller;
-  const finish = (how, arg) => {
-    if (finished) return;
+  const detach = () => {
     finished = true;
     req.off("data", onData);
     req.off("end", onEnd);
     req.off("error", onError);
+  };
+  const finish = (how, arg) => {
+    if (finished) return;
+    detach();
     try {
       if (how === "close") controller.close();
       else controller.error(arg);
@@ -116,10 +119,7 @@ function bodyStream(req, res, limit, onOverLimit) {
       },
       cancel() {
         if (finished) return;
-        finished = true;
-        req.off("data", onData);
-        req.off("end", onEnd);
-        req.off("error", onError);
+        detach();
         drain(req, res);
       },
     },
@@ -234,13 +234,10 @@ export function createBridge({ build, maxBodyBytes = DEFAULT_MAX_BODY_BYTES, mod
       await response.body?.cancel().catch(() => {});
       return;
     }
-    const raw = [];
-    for (const [k, v] of response.headers) raw.push(k, v);
-    // getSetCookie keeps several Set-Cookie headers apart.
-    const cookies = typeof response.headers.getSetCookie === "function" ? response.headers.getSetCookie() : [];
+    // Set-Cookie headers one by one (getSetCookie); iterating Headers would join them with commas.
     const headerList = [];
-    for (let i = 0; i < raw.length; i += 2) if (raw[i].toLowerCase() !== "set-cookie") headerList.push(raw[i], raw[i + 1]);
-    for (const c of cookies) headerList.push("Set-Cookie", c);
+    for (const [k, v] of response.headers) if (k !== "set-cookie") headerList.push(k, v);
+    for (const c of response.headers.getSetCookie()) headerList.push("Set-Cookie", c);
     if (response.statusText) res.writeHead(response.status, response.statusText, headerList);
     else res.writeHead(response.status, headerList);
     if (response.body && method !== "HEAD") await writeBody(response.body, res);

@@ -8,13 +8,15 @@ import { apiError } from "./errors.server";
 import { databaseUnreachable } from "../../db/unreachable";
 import { databaseProblem } from "../../db/client.server";
 
-export const DATABASE_DOWN_MESSAGE = "The database is not answering (it may be restarting); try again shortly.";
+const databaseDown = () =>
+  apiError(503, "database_unavailable", "The database is not answering (it may be restarting); try again shortly.", undefined, { "Retry-After": "5" });
+const internalError = () => apiError(500, "internal_error", "The server could not answer this request; it has been logged.");
 
 /** The JSON answer for an error thrown by an API route. */
-export function apiErrorResponse(e: unknown, path: string): Response {
-  if (databaseUnreachable(e)) return apiError(503, "database_unavailable", DATABASE_DOWN_MESSAGE, undefined, { "Retry-After": "5" });
+function apiErrorResponse(e: unknown, path: string): Response {
+  if (databaseUnreachable(e)) return databaseDown();
   console.error(`API ${path}: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
-  return apiError(500, "internal_error", "The server could not answer this request; it has been logged.");
+  return internalError();
 }
 
 /**
@@ -33,7 +35,5 @@ export const apiErrorsMiddleware: MiddlewareFunction<Response> = async ({ reques
   }
   if (res.status !== 500 || /application\/json/.test(res.headers.get("Content-Type") ?? "")) return res;
   await res.body?.cancel().catch(() => {});
-  const problem = await databaseProblem();
-  if (problem) return apiError(503, "database_unavailable", DATABASE_DOWN_MESSAGE, undefined, { "Retry-After": "5" });
-  return apiError(500, "internal_error", "The server could not answer this request; it has been logged.");
+  return (await databaseProblem()) ? databaseDown() : internalError();
 };

@@ -57,10 +57,15 @@ function quantity(value: number, unit: string) {
   return { value, unit };
 }
 
-/** Reads the body and answers it on this thread (tests; the route answers in a compute thread). */
-export async function handleRates(request: Request): Promise<Response> {
+/**
+ * Reads a rates request's body and answers it: a request for at most RATES_INLINE_PAIRS rate
+ * constants here (cheaper than the trip to a thread), a larger one through `inThread` when given
+ * (the route passes the compute pool; tests may leave it out and compute here).
+ */
+export async function handleRates(request: Request, inThread?: (text: string, signal: AbortSignal) => Promise<Response>): Promise<Response> {
   const body = await readJsonBody(request);
   if (!body.ok) return body.response;
+  if (inThread && requestedPairs(body.value) > RATES_INLINE_PAIRS) return inThread(body.text, request.signal);
   return answerRates(body.value, body.text);
 }
 

@@ -47,8 +47,8 @@ const busy = (why: string) => apiError(503, "busy", `The compute service is busy
 
 /** What the compute API answers in a thread: the task kind and the words for its messages. */
 const TASKS = {
-  simulate: { kind: "simulate-api", work: "simulation", plural: "simulations", advice: "try a shorter end time or looser tolerances" },
-  rates: { kind: "rates-api", work: "rate calculation", plural: "requests", advice: "ask for fewer steps or temperatures" },
+  simulate: { kind: "simulate-api", work: "simulation", plural: "simulations", advice: "try a shorter end time or looser tolerances", stopped: "simulation_stopped", failed: "simulation_failed" },
+  rates: { kind: "rates-api", work: "rate calculation", plural: "requests", advice: "ask for fewer steps or temperatures", stopped: "computation_stopped", failed: "computation_failed" },
 } as const;
 
 /**
@@ -94,12 +94,10 @@ async function answerInThread(task: (typeof TASKS)[keyof typeof TASKS], text: st
     if (/queue is at limit/i.test(message)) return busy(`${MAX_QUEUE} ${task.plural} waiting`);
     if (why === "wait") return busy(`no compute thread became free within ${MAX_WAIT_MS / 1000} s`);
     if (why === "overrun") {
-      const code = task.kind === "simulate-api" ? "simulation_stopped" : "computation_stopped";
-      return apiError(503, code, `The ${task.work} did not stop at its wall-time budget of ${maxWallMs} ms and its thread was stopped; ${task.advice}.`);
+      return apiError(503, task.stopped, `The ${task.work} did not stop at its wall-time budget of ${maxWallMs} ms and its thread was stopped; ${task.advice}.`);
     }
     console.error(`${task.kind}: the compute thread stopped unexpectedly: ${message}`);
-    const code = task.kind === "simulate-api" ? "simulation_failed" : "computation_failed";
-    return apiError(500, code, `The ${task.work}'s compute thread stopped unexpectedly; try again.`);
+    return apiError(500, task.failed, `The ${task.work}'s compute thread stopped unexpectedly; try again.`);
   } finally {
     clearInterval(timer);
     signal.removeEventListener("abort", raise);

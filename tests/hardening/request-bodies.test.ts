@@ -5,35 +5,16 @@
  * (413 / 400 in the API's JSON error shape) and the same worker keeps serving pages.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { execFileSync } from "node:child_process";
 import { connect } from "node:net";
 import { request as httpRequest } from "node:http";
 import { freshDatabase, type TestDatabase } from "../support/db";
+import { descendantsOf } from "../support/processes";
 import { seedDemo } from "../../db/seeds/index";
 import { createApiToken } from "../../db/access/tokens.server";
 import { startAppServer, type AppServer } from "../../scripts/app-server";
 import { freePort } from "../../scripts/ports";
 
 const SERVER_LIMIT = 2 * 1024 * 1024;
-
-/** Every process below the one the harness started (the supervisor's workers among them). */
-function processTree(pid: number): number[] {
-  const out: number[] = [];
-  const visit = (p: number) => {
-    let kids: number[] = [];
-    try {
-      kids = execFileSync("ps", ["-o", "pid=", "--ppid", String(p)], { encoding: "utf8" })
-        .split("\n")
-        .map((s) => Number(s.trim()))
-        .filter((n) => n > 0);
-    } catch {
-      /* no children */
-    }
-    for (const k of kids) (out.push(k), visit(k));
-  };
-  visit(pid);
-  return out.sort();
-}
 
 interface Answer {
   status: number;
@@ -97,8 +78,8 @@ describe.skipIf(!process.env.APP_URL)("request bodies and the production server'
       env: { DATABASE_URL: t.url, SESSION_SECRET: "body-limit-test-secret-body-limit", WEB_CONCURRENCY: "1", MAX_REQUEST_BODY_BYTES: String(SERVER_LIMIT) },
     });
     const deadline = Date.now() + 20_000;
-    while (processTree(app.child.pid!).length < 1 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
-    before = processTree(app.child.pid!);
+    while (descendantsOf(app.child.pid!).length < 1 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
+    before = descendantsOf(app.child.pid!);
   }, 180_000);
 
   afterAll(async () => {
@@ -116,7 +97,7 @@ describe.skipIf(!process.env.APP_URL)("request bodies and the production server'
     }
     const page = await fetch(app!.url + "/sign-in");
     expect(page.status).toBe(200);
-    expect(processTree(app!.child.pid!)).toEqual(before);
+    expect(descendantsOf(app!.child.pid!)).toEqual(before);
   }, 120_000);
 
   it("answers a streamed body over the server-wide limit with 413 on a page form and on the API", async () => {
@@ -128,7 +109,7 @@ describe.skipIf(!process.env.APP_URL)("request bodies and the production server'
       expect(JSON.parse(a.body).error.message).toMatch(path.startsWith("/api/") ? /larger than the/ : /larger than the server's limit/);
     }
     expect((await fetch(app!.url + "/api/v1/health")).status).toBe(200);
-    expect(processTree(app!.child.pid!)).toEqual(before);
+    expect(descendantsOf(app!.child.pid!)).toEqual(before);
   }, 60_000);
 
   it("refuses a declared Content-Length over the limit before reading the body", async () => {
@@ -152,6 +133,6 @@ describe.skipIf(!process.env.APP_URL)("request bodies and the production server'
     }
     const page = await fetch(app!.url + "/sign-in");
     expect(page.status).toBe(200);
-    expect(processTree(app!.child.pid!)).toEqual(before);
+    expect(descendantsOf(app!.child.pid!)).toEqual(before);
   }, 60_000);
 });

@@ -6,27 +6,15 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readFileSync } from "node:fs";
-import { execFileSync } from "node:child_process";
 import { request as httpRequest } from "node:http";
 import { freshDatabase, type TestDatabase } from "../support/db";
+import { childrenOf } from "../support/processes";
 import { seedDemo } from "../../db/seeds/index";
 import { createApiToken } from "../../db/access/tokens.server";
 import { createRun } from "../../db/access/runs.server";
 import { resolveSolver } from "../../app/compute/run-request";
 import { startAppServer, type AppServer } from "../../scripts/app-server";
 import { freePort } from "../../scripts/ports";
-
-/** Direct children of a process. */
-function childrenOf(pid: number): number[] {
-  try {
-    return execFileSync("ps", ["-o", "pid=", "--ppid", String(pid)], { encoding: "utf8" })
-      .split("\n")
-      .map((s) => Number(s.trim()))
-      .filter((n) => n > 0);
-  } catch {
-    return [];
-  }
-}
 
 /** The server's workers and their names, found under the process the harness started. */
 function workers(app: AppServer): Array<{ pid: number; name: string }> {

@@ -68,11 +68,11 @@ describe.skipIf(!process.env.APP_URL)("npm start when its database is killed", (
   }, 60_000);
 
   it("answers 503 JSON while it is down, starts it again, and serves the same data", async () => {
-    const libraryCount = async () => {
+    const health = async () => {
       const r = await fetch(url + "/api/v1/health");
       return r.status;
     };
-    expect(await libraryCount()).toBe(200);
+    expect(await health()).toBe(200);
     const pid = Number(readFileSync(join(dir, "mariadb", "mariadbd.pid"), "utf8").trim());
     process.kill(pid, "SIGKILL");
     // Right after the kill: an API request that needs the database gets the JSON shape, 503.
@@ -85,7 +85,7 @@ describe.skipIf(!process.env.APP_URL)("npm start when its database is killed", (
 
     await waitForOutput(/MariaDB is answering again/, 90_000);
     expect(out).toMatch(/MariaDB stopped unexpectedly; starting it again/);
-    await expect.poll(libraryCount, { timeout: 20_000, interval: 250 }).toBe(200);
+    await expect.poll(health, { timeout: 20_000, interval: 250 }).toBe(200);
     // The demo data seeded before the kill is still there (committed work survives).
     const signIn = await fetch(url + "/sign-in");
     expect(signIn.status).toBe(200);
