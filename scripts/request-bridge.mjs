@@ -49,8 +49,12 @@ function closeWhenAnswered(req, res) {
   });
 }
 
-/** Reads the rest of an abandoned upload and throws it away (bounded), so the answer can be read. */
-function drain(req, res) {
+/**
+ * Reads the rest of an abandoned upload and throws it away, so that a client still sending gets
+ * to read the answer (closing the connection under it would reset its writes). Past
+ * DRAIN_LIMIT_BYTES the connection is closed.
+ */
+function drain(req) {
   let drained = 0;
   req.removeAllListeners("data");
   req.on("data", (chunk) => {
@@ -59,14 +63,13 @@ function drain(req, res) {
   });
   req.on("error", () => {});
   req.resume();
-  closeWhenAnswered(req, res);
 }
 
 /**
  * The body of `req` as a ReadableStream: pull-based, cancellable, counted against `limit`;
  * `onOverLimit` is called once when the count passes it.
  */
-function bodyStream(req, res, limit, onOverLimit) {
+function bodyStream(req, limit, onOverLimit) {
   let size = 0;
   let finished = false;
   let controller;
@@ -91,7 +94,7 @@ function bodyStream(req, res, limit, onOverLimit) {
     size += chunk.length;
     if (size > limit) {
       finish("error", new BodyTooLarge(tooLargeMessage(limit)));
-      drain(req, res);
+      drain(req);
       onOverLimit();
       return;
     }
@@ -101,7 +104,7 @@ function bodyStream(req, res, limit, onOverLimit) {
     } catch {
       // The reader went away between chunks: stop taking them.
       finished = true;
-      drain(req, res);
+      drain(req);
     }
   };
   const onEnd = () => finish("close");
@@ -120,7 +123,7 @@ function bodyStream(req, res, limit, onOverLimit) {
       cancel() {
         if (finished) return;
         detach();
-        drain(req, res);
+        drain(req);
       },
     },
     { highWaterMark: 64 * 1024, size: (chunk) => chunk.byteLength },
@@ -203,8 +206,15 @@ export function createBridge({ build, maxBodyBytes = DEFAULT_MAX_BODY_BYTES, mod
     const hasBody = method !== "GET" && method !== "HEAD";
     const declared = Number(req.headers["content-length"]);
     if (hasBody && Number.isFinite(declared) && declared > maxBodyBytes) {
-      writeJsonError(res, 413, "body_too_large", tooLargeMessage(maxBodyBytes), { Connection: "close" });
-      drain(req, res);
+      if (declared > DRAIN_LIMIT_BYTES) {
+        // Too much to read and throw away: answer and close.
+        writeJsonError(res, 413, "body_too_large", tooLargeMessage(maxBodyBytes), { Connection: "close" });
+        req.resume();
+        closeWhenAnswered(req, res);
+      } else {
+        writeJsonError(res, 413, "body_too_large", tooLargeMessage(maxBodyBytes));
+        drain(req);
+      }
       return;
     }
     const abort = new AbortController();
@@ -214,9 +224,9 @@ export function createBridge({ build, maxBodyBytes = DEFAULT_MAX_BODY_BYTES, mod
     let overLimit = false;
     const init = { method, headers: headersOf(req), signal: abort.signal };
     if (hasBody) {
-      init.body = bodyStream(req, res, maxBodyBytes, () => {
+      init.body = bodyStream(req, maxBodyBytes, () => {
         overLimit = true;
-        writeJsonError(res, 413, "body_too_large", tooLargeMessage(maxBodyBytes), { Connection: "close" });
+        writeJsonError(res, 413, "body_too_large", tooLargeMessage(maxBodyBytes));
       });
       init.duplex = "half";
     }
