@@ -1,13 +1,15 @@
 /**
  * Vitest global setup: makes sure a test MariaDB answers before integration tests run.
  *
- * `npm test` (scripts/test.ts) starts the server itself and passes TEST_DATABASE_URL;
- * a direct `npx vitest run tests/integration/…` starts the embedded test server here and
- * leaves it running for the next run (`npm test` stops the server it starts). Runs of
+ * `npm test` (scripts/test.ts) starts the servers itself and passes TEST_DATABASE_URL and
+ * REDIS_TEST_URL; a direct `npx vitest run tests/integration/…` starts the embedded test
+ * MariaDB and Redis here and leaves them running for the next run (`npm test` stops the
+ * servers it starts). Runs of
  * solver tests alone need no database.
  */
 import type { TestProject } from "vitest/node";
 import { ensureDatabase } from "../../scripts/mariadb";
+import { ensureRedis } from "../../scripts/redis";
 
 
 function onlyPureTests(): boolean {
@@ -16,7 +18,7 @@ function onlyPureTests(): boolean {
 }
 
 export async function setup(_project: TestProject): Promise<void> {
-  if (process.env.TEST_DATABASE_URL || onlyPureTests()) return;
-  const handle = await ensureDatabase("test");
-  process.env.TEST_DATABASE_URL = handle.url;
+  if (onlyPureTests()) return;
+  if (!process.env.TEST_DATABASE_URL) process.env.TEST_DATABASE_URL = (await ensureDatabase("test")).url;
+  if (!process.env.REDIS_TEST_URL) process.env.REDIS_TEST_URL = (await ensureRedis("test")).url;
 }
