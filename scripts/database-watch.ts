@@ -1,9 +1,10 @@
 /**
- * `npm start` keeps its embedded MariaDB running: a check every `intervalMs` that the server's
- * process is alive; when it is gone (killed, crashed) it is started again from the same data
- * directory (InnoDB recovers committed work on start). Meanwhile the app answers API requests
- * 503 in JSON and pages with an error page. If it cannot be started, or stops `maxRestarts`
- * times within `windowMs`, `giveUp` is called with one sentence saying so.
+ * `npm start` keeps its embedded MariaDB and Redis running: a check every `intervalMs` that the
+ * server's process is alive; when it is gone (killed, crashed) it is started again from the same
+ * data directory (InnoDB recovers committed work on start; Redis replays its append-only file,
+ * so queued jobs are still there). Meanwhile the app answers API requests 503 in JSON and pages
+ * with an error page (MariaDB), or queued work waits (Redis). If it cannot be started, or stops
+ * `maxRestarts` times within `windowMs`, `giveUp` is called with one sentence saying so.
  */
 export interface DatabaseWatch {
   stop(): void;
@@ -15,6 +16,11 @@ export function watchDatabase(opts: {
   giveUp: (sentence: string) => void;
   log: (line: string) => void;
   dataDir: string;
+  /** The server's name in messages (default MariaDB) and its log file (default its mariadbd.err). */
+  name?: string;
+  logFile?: string;
+  /** What happens while it is down, for the message (default: the API answers 503). */
+  meanwhile?: string;
   intervalMs?: number;
   maxRestarts?: number;
   windowMs?: number;
@@ -25,7 +31,9 @@ export function watchDatabase(opts: {
   const restarts: number[] = [];
   let busy = false;
   let stopped = false;
-  const errLog = `${opts.dataDir}/mariadbd.err`;
+  const errLog = opts.logFile ?? `${opts.dataDir}/mariadbd.err`;
+  const name = opts.name ?? "MariaDB";
+  const meanwhile = opts.meanwhile ?? "the API answers 503 meanwhile";
 
   const check = async () => {
     if (busy || stopped || opts.running()) return;
@@ -34,17 +42,17 @@ export function watchDatabase(opts: {
       const now = Date.now();
       while (restarts.length && now - restarts[0]! > windowMs) restarts.shift();
       if (restarts.length >= maxRestarts) {
-        opts.giveUp(`MariaDB stopped ${maxRestarts + 1} times within ${Math.round(windowMs / 60_000)} minutes, so Saddlebook has stopped: read ${errLog}, then run npm start again.`);
+        opts.giveUp(`${name} stopped ${maxRestarts + 1} times within ${Math.round(windowMs / 60_000)} minutes, so Saddlebook has stopped: read ${errLog}, then run npm start again.`);
         return;
       }
       restarts.push(now);
-      opts.log(`MariaDB stopped unexpectedly; starting it again from ${opts.dataDir} (the API answers 503 meanwhile)…`);
+      opts.log(`${name} stopped unexpectedly; starting it again from ${opts.dataDir} (${meanwhile})…`);
       try {
         await opts.restart();
-        opts.log("MariaDB is answering again.");
+        opts.log(`${name} is answering again.`);
       } catch (e) {
         const why = e instanceof Error ? e.message : String(e);
-        opts.giveUp(`MariaDB stopped and could not be started again (${why}), so Saddlebook has stopped: read ${errLog}, then run npm start again.`);
+        opts.giveUp(`${name} stopped and could not be started again (${why}), so Saddlebook has stopped: read ${errLog}, then run npm start again.`);
       }
     } finally {
       busy = false;

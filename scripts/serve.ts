@@ -15,6 +15,9 @@
  *    within a minute); on a normal stop the workers' unfinished runs are failed the same way;
  *  - keeps the compute API's per-user request windows for all workers (IPC), so the limit is
  *    the server's, not each worker's;
+ *  - runs the app's compute-queue workers (scripts/queue-workers.ts: QUEUE_WORKERS jobs at once,
+ *    each in a compute thread) when REDIS_URL is set; a job it holds when the server stops is
+ *    taken up again by the next worker;
  *  - on SIGTERM or SIGINT stops accepting connections, lets the workers finish the requests
  *    they hold (at most 10 s) and exits.
  */
@@ -27,6 +30,7 @@ import { knexConfigFromUrl } from "../db/config";
 import { databaseUnreachable } from "../db/unreachable";
 import { failRunsOfOtherServers, failRunsOfServerProcess } from "../db/access/runs.server";
 import { SHUTDOWN_GRACE_MS } from "./shutdown-grace.mjs";
+import { checkedLockSetting, queueWorkerCount, startQueueWorkers, type QueueWorkers } from "./queue-workers";
 import { SlidingWindows, WINDOW_ANSWER, WINDOW_REQUEST, type WindowAnswer, type WindowRequest } from "../app/security/sliding-window";
 
 const root = resolve(import.meta.dirname, "..");
@@ -46,6 +50,13 @@ function countSetting(name: string, fallback: number, max: number): number {
 async function supervise() {
   const workers = countSetting("WEB_CONCURRENCY", Math.max(1, Math.min(4, availableParallelism())), 64);
   const threads = countSetting("COMPUTE_THREADS", Math.max(1, Math.floor((availableParallelism() - 1) / workers)), 64);
+  try {
+    queueWorkerCount();
+    checkedLockSetting();
+  } catch (e) {
+    console.error((e as Error).message);
+    process.exit(1);
+  }
   const bootId = randomBytes(4).toString("hex");
   const dbUrl = process.env.DATABASE_URL;
   if (!dbUrl) throw new Error("DATABASE_URL is not set.");
@@ -65,6 +76,12 @@ async function supervise() {
     }
   };
   await sweep();
+
+  // Compute-queue workers: off the request path (their work runs in compute threads).
+  let queueWorkers: QueueWorkers | undefined;
+  if (process.env.REDIS_URL) {
+    queueWorkers = await startQueueWorkers({ databaseUrl: dbUrl, redisUrl: process.env.REDIS_URL, log: (line) => console.error(line) });
+  }
 
   const windows = new SlidingWindows();
   const names = new Map<Worker, string>();
@@ -96,6 +113,7 @@ async function supervise() {
     exitCode = Math.max(exitCode, code);
     if (stopping) return;
     stopping = true;
+    void queueWorkers?.stop().catch(() => {});
     if (names.size === 0) void db.destroy().finally(() => process.exit(exitCode));
     for (const w of names.keys()) w.process.kill("SIGTERM");
     setTimeout(() => {

@@ -1,7 +1,8 @@
 /**
  * `npm start` (production build) and `npm run dev` (Vite dev server).
  *
- * Ensures the database (the embedded MariaDB unless DATABASE_URL is set), migrates it,
+ * Ensures the database (the embedded MariaDB unless DATABASE_URL is set) and the compute
+ * queue's Redis (a private redis-server unless REDIS_URL is set), migrates the database,
  * seeds the illustrative demo scenario into an empty database, builds the app when the
  * build is missing or stale, starts the local fakes of hosted services, and serves the
  * app on 127.0.0.1:PORT. Ctrl-C stops everything this script started.
@@ -10,6 +11,8 @@ import knexFactory from "knex";
 import { ConfigProblem, failWith, loadDotEnv } from "./env";
 import { ensureDatabase, type DatabaseHandle } from "./mariadb";
 import { watchDatabase, type DatabaseWatch } from "./database-watch";
+import { ensureRedis, type RedisHandle } from "./redis";
+import { startQueueWorkers, type QueueWorkers } from "./queue-workers";
 import { portFree } from "./ports";
 import { buildApp, buildIsCurrent } from "./build-state";
 import { startAppServer, type AppServer } from "./app-server";
@@ -24,18 +27,24 @@ const dev = process.argv.includes("--dev");
 const log = (line: string) => console.log(line);
 
 let database: DatabaseHandle | undefined;
+let redis: RedisHandle | undefined;
+let queueWorkers: QueueWorkers | undefined;
 let services: DevServices | undefined;
 let app: AppServer | undefined;
 let stopping = false;
 let dbWatch: DatabaseWatch | undefined;
+let redisWatch: DatabaseWatch | undefined;
 
 async function shutdown(code: number): Promise<never> {
   if (!stopping) {
     stopping = true;
     log("\nStopping…");
     dbWatch?.stop();
+    redisWatch?.stop();
     await app?.stop().catch(() => {});
+    await queueWorkers?.stop().catch(() => {});
     await services?.stop().catch(() => {});
+    await redis?.stop().catch(() => {});
     await database?.stop().catch(() => {});
   }
   process.exit(code);
@@ -56,6 +65,7 @@ async function main(): Promise<void> {
   }
 
   database = await ensureDatabase("app");
+  redis = await ensureRedis("app", log);
   const db = knexFactory(knexConfigFromUrl(database.url, { min: 0, max: 2 }));
   try {
     const applied = await migrateLatest(db);
@@ -85,6 +95,7 @@ async function main(): Promise<void> {
     env: {
       ...services.env,
       DATABASE_URL: database.url,
+      REDIS_URL: redis.url,
       SESSION_SECRET: sessionSecret(),
       APP_URL: process.env.APP_URL ?? appUrl,
     },
@@ -96,18 +107,36 @@ async function main(): Promise<void> {
     }
   });
 
+  // The production server runs the app's queue workers itself (scripts/serve.ts); Vite's
+  // development server does not, so here they run beside it.
+  if (dev) queueWorkers = await startQueueWorkers({ databaseUrl: database.url, redisUrl: redis.url, log });
+
+  const giveUp = (sentence: string) => {
+    console.error(`\n✖ ${sentence}\n`);
+    void shutdown(1);
+  };
+  if (redis.dataDir) {
+    redisWatch = watchDatabase({
+      dataDir: redis.dataDir,
+      name: "Redis",
+      logFile: `${redis.dataDir}/redis.log`,
+      meanwhile: "queued ensembles wait meanwhile",
+      running: () => redis!.running(),
+      restart: async () => {
+        redis = await ensureRedis("app", log);
+      },
+      giveUp,
+      log,
+    });
+  }
   if (database.dataDir) {
-    const dataDir = database.dataDir;
     dbWatch = watchDatabase({
-      dataDir,
+      dataDir: database.dataDir,
       running: () => database!.running(),
       restart: async () => {
         database = await ensureDatabase("app");
       },
-      giveUp: (sentence) => {
-        console.error(`\n✖ ${sentence}\n`);
-        void shutdown(1);
-      },
+      giveUp,
       log,
     });
   }
@@ -127,7 +156,9 @@ async function main(): Promise<void> {
 
 main().catch(async (e) => {
   await app?.stop().catch(() => {});
+  await queueWorkers?.stop().catch(() => {});
   await services?.stop().catch(() => {});
+  await redis?.stop().catch(() => {});
   await database?.stop().catch(() => {});
   failWith(e);
 });

@@ -3,6 +3,8 @@
  *
  * 1. A test MariaDB of its own (.data/mariadb-test on DB_TEST_PORT, or TEST_DATABASE_URL),
  *    never the demo database; each integration test file makes a database of its own.
+ *    The compute queue's test Redis likewise (.data/redis-test on REDIS_TEST_PORT, default
+ *    DB_TEST_PORT + 3000, or REDIS_TEST_URL), nothing kept on disk.
  * 2. Debian's Chromium for the browser tests (installed when missing and root).
  * 3. A fresh production build, served on a free loopback port against a database
  *    migrated from zero and seeded with the demo scenario, with the local fakes.
@@ -16,6 +18,7 @@ import { randomBytes } from "node:crypto";
 import knexFactory from "knex";
 import { ConfigProblem, projectRoot } from "./env";
 import { ensureDatabase, type DatabaseHandle } from "./mariadb";
+import { ensureRedis, type RedisHandle } from "./redis";
 import { ensureChromium } from "./chromium";
 import { buildApp } from "./build-state";
 import { startAppServer, type AppServer } from "./app-server";
@@ -29,6 +32,7 @@ const log = (line: string) => console.log(line);
 const reportFile = resolve(projectRoot, ".data/test-report.json");
 
 let database: DatabaseHandle | undefined;
+let redis: RedisHandle | undefined;
 let services: DevServices | undefined;
 let app: AppServer | undefined;
 let e2eDb: string | undefined;
@@ -42,6 +46,7 @@ async function cleanup(): Promise<void> {
     await admin.destroy();
   }
   await database?.stop().catch(() => {});
+  await redis?.stop().catch(() => {});
 }
 
 function runVitest(env: Record<string, string>, args: string[]): Promise<number> {
@@ -77,6 +82,7 @@ async function main(): Promise<number> {
   rmSync(reportFile, { force: true });
   const chromium = ensureChromium(log);
   database = await ensureDatabase("test");
+  redis = await ensureRedis("test", log);
 
   // The database the served app uses in the browser tests: migrated from zero, demo seeded.
   e2eDb = `saddlebook_t_e2e_${randomBytes(4).toString("hex")}`;
@@ -97,7 +103,7 @@ async function main(): Promise<number> {
   app = await startAppServer({
     port,
     quiet: true,
-    env: { ...services.env, DATABASE_URL: e2eUrl, SESSION_SECRET: randomBytes(32).toString("hex"), APP_URL: appUrl },
+    env: { ...services.env, DATABASE_URL: e2eUrl, REDIS_URL: redis.url, SESSION_SECRET: randomBytes(32).toString("hex"), APP_URL: appUrl },
   });
   log(`App under test at ${appUrl}`);
 
@@ -105,6 +111,7 @@ async function main(): Promise<number> {
     {
       ...services.env,
       TEST_DATABASE_URL: database.url,
+      REDIS_TEST_URL: redis.url,
       E2E_DATABASE_URL: e2eUrl,
       APP_URL: appUrl,
       CHROMIUM_PATH: chromium,

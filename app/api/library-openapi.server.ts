@@ -171,9 +171,9 @@ export function openApiDocument(): Record<string, unknown> {
       "/mechanisms/{id}/fork": { post: { summary: "Fork into your space (the owner is e-mailed)", parameters: [idParam()], requestBody: { required: false, ...json("Fork") }, responses: { 201: ok("{id, version}"), ...errors(400, 401, 403, 404) } } },
       "/health": {
         get: {
-          summary: "Liveness: {status, db}; 503 with the reason when the database is down (no sign-in needed)",
+          summary: "Liveness: {status, db, queue}; 503 with the reason when the database is down; the compute queue's Redis is reported (ok, down with queueReason, off) but never makes it 503 (no sign-in needed)",
           security: [],
-          responses: { 200: ok("{status: \"ok\", db: \"ok\"}"), 503: { description: "{status: \"degraded\", db: \"down\", reason}", content: { "application/json": { schema: { type: "object" } } } } },
+          responses: { 200: ok("{status: \"ok\", db: \"ok\", queue: \"ok\"}"), 503: { description: "{status: \"degraded\", db: \"down\", reason, queue}", content: { "application/json": { schema: { type: "object" } } } } },
         },
       },
       "/me": { get: { summary: "The caller: id, e-mail, name, role and groups", responses: { 200: ok("The signed-in user"), ...errors(401, 405) } } },

@@ -25,6 +25,15 @@ import { processorFor, type ThreadRun } from "./processors.server";
 export const LOCK_MS = 10_000;
 export const STALLED_CHECK_MS = 5_000;
 export const MAX_STALLED = 3;
+/** QUEUE_LOCK_MS (default LOCK_MS), at least 1000 ms; the stalled check runs at half of it. */
+export function lockSetting(env: NodeJS.ProcessEnv = process.env): { lockMs: number; stalledCheckMs: number } {
+  const raw = env.QUEUE_LOCK_MS;
+  if (raw === undefined || raw === "") return { lockMs: LOCK_MS, stalledCheckMs: STALLED_CHECK_MS };
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1000) throw new Error(`QUEUE_LOCK_MS must be a whole number of milliseconds, at least 1000 (got "${raw}").`);
+  return { lockMs: n, stalledCheckMs: Math.round(n / 2) };
+}
+
 /** How often a running job's stop condition (cancellation) is checked and its progress reported, ms. */
 const TICK_MS = 250;
 
@@ -34,7 +43,7 @@ export interface QueueWorkerOptions {
   concurrency: number;
   connection?: ConnectionOptions;
   prefix?: string;
-  /** Lock and stalled-check periods, ms (tests shorten them). */
+  /** Lock and stalled-check periods, ms (default: lockSetting()). */
   lockMs?: number;
   stalledCheckMs?: number;
   log?: (line: string) => void;
@@ -109,8 +118,8 @@ export function startQueueWorker(opts: QueueWorkerOptions): QueueWorker {
       connection,
       prefix,
       concurrency: opts.concurrency,
-      lockDuration: opts.lockMs ?? LOCK_MS,
-      stalledInterval: opts.stalledCheckMs ?? STALLED_CHECK_MS,
+      lockDuration: opts.lockMs ?? lockSetting().lockMs,
+      stalledInterval: opts.stalledCheckMs ?? lockSetting().stalledCheckMs,
       maxStalledCount: MAX_STALLED,
     },
   );

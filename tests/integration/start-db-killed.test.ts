@@ -1,11 +1,13 @@
 // Fault: the embedded MariaDB that `npm start` runs is killed (SIGKILL) under the running app.
 // The start command notices and starts it again from the same data directory; meanwhile the
 // API answers 503 in its JSON error shape; afterwards the app answers with its data intact.
+// The same for the compute queue's Redis: started again, with what was queued still there.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { spawn, type ChildProcess } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
+import { Redis } from "ioredis";
 import { freePort } from "../../scripts/ports";
 
 const root = resolve(import.meta.dirname, "../..");
@@ -38,6 +40,9 @@ describe.skipIf(!process.env.APP_URL)("npm start when its database is killed", (
         PORT: String(port),
         DB_PORT: String(await freePort()),
         DB_DATA_DIR: join(dir, "mariadb"),
+        REDIS_URL: "",
+        REDIS_PORT: String(await freePort()),
+        REDIS_DATA_DIR: join(dir, "redis"),
         SESSION_SECRET: "start-kill-secret-start-kill-secret",
         SMTP_URL: "smtp://127.0.0.1:9",
         OIDC_ISSUER: "",
@@ -58,11 +63,13 @@ describe.skipIf(!process.env.APP_URL)("npm start when its database is killed", (
       while (child.exitCode === null && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
       if (child.exitCode === null) process.kill(-child.pid!, "SIGKILL");
     }
-    // The database server runs in a process group of its own: stop it if it is still there.
-    try {
-      process.kill(Number(readFileSync(join(dir, "mariadb", "mariadbd.pid"), "utf8").trim()), "SIGKILL");
-    } catch {
-      /* already gone */
+    // The servers run in process groups of their own: stop them if they are still there.
+    for (const pidFile of [join(dir, "mariadb", "mariadbd.pid"), join(dir, "redis", "redis.pid")]) {
+      try {
+        process.kill(Number(readFileSync(pidFile, "utf8").trim()), "SIGKILL");
+      } catch {
+        /* already gone */
+      }
     }
     rmSync(dir, { recursive: true, force: true });
   }, 60_000);
@@ -91,4 +98,24 @@ describe.skipIf(!process.env.APP_URL)("npm start when its database is killed", (
     expect(signIn.status).toBe(200);
     expect(child.exitCode).toBeNull();
   }, 150_000);
+
+  it("starts its Redis again after a kill, with the queued jobs still there", async () => {
+    const redisUrl = `redis://127.0.0.1:${readFileSync(join(dir, "redis", "saddlebook-port"), "utf8").trim()}`;
+    const client = new Redis(redisUrl, { maxRetriesPerRequest: null });
+    client.on("error", () => {}); // refused while it is down; commands wait for the reconnect
+    try {
+      await client.rpush("saddlebook-start-kill-probe", "queued");
+      // The append-only file is written once a second (Redis's default fsync policy).
+      await new Promise((r) => setTimeout(r, 1500));
+      process.kill(Number(readFileSync(join(dir, "redis", "redis.pid"), "utf8").trim()), "SIGKILL");
+      await waitForOutput(/Redis is answering again/, 60_000);
+      expect(out).toMatch(/Redis stopped unexpectedly; starting it again/);
+      expect(await client.lrange("saddlebook-start-kill-probe", 0, -1)).toEqual(["queued"]);
+      const health = (await (await fetch(url + "/api/v1/health")).json()) as { queue: string };
+      expect(health.queue).toBe("ok");
+      expect(child.exitCode).toBeNull();
+    } finally {
+      client.disconnect();
+    }
+  }, 90_000);
 });

@@ -12,6 +12,7 @@ import { ConfigProblem, projectRoot } from "../../scripts/env";
 import { freePort } from "../../scripts/ports";
 import { ensureEmbeddedRedis, ensureRedis, ensureRedisInstalled, redisAnswers, testRedisPort } from "../../scripts/redis";
 import { testRedisUrl } from "../support/queue";
+import { closeQueues, queueProblem } from "../../app/queue/queue.server";
 
 const dirs: string[] = [];
 afterAll(() => {
@@ -126,5 +127,24 @@ describe("REDIS_URL", () => {
     await expect(ensureRedis("app")).rejects.toThrow("REDIS_URL must start with redis:// or rediss:// (it starts with http://)");
     process.env.REDIS_URL = "not a url";
     await expect(ensureRedis("app")).rejects.toThrow("REDIS_URL is not a valid URL");
+  });
+});
+
+describe("queue health check", () => {
+  const saved = process.env.REDIS_URL;
+  afterAll(async () => {
+    if (saved === undefined) delete process.env.REDIS_URL;
+    else process.env.REDIS_URL = saved;
+    await closeQueues();
+  });
+
+  it("answers null with Redis up and a reason, within its time limit, with Redis down", async () => {
+    process.env.REDIS_URL = testRedisUrl();
+    expect(await queueProblem(2000)).toBeNull();
+    await closeQueues();
+    process.env.REDIS_URL = `redis://127.0.0.1:${await freePort()}`;
+    const t0 = Date.now();
+    expect(await queueProblem(500)).toMatch(/.+/);
+    expect(Date.now() - t0).toBeLessThan(3000);
   });
 });
