@@ -4,17 +4,8 @@
  */
 import type { Barrier, StandardState, StepKinetics } from "../solver/types.ts";
 
-/** Mulberry32: a small seeded generator of uniform numbers in [0, 1). */
-export function seededUniform(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededUniform } from "../solver/random.ts";
+import { seededUniform } from "../solver/random.ts";
 
 const STATES: StandardState[] = ["1M", "1bar", "1atm"];
 

@@ -15,6 +15,7 @@ import * as m0320 from "./0320_run_server_process";
 import * as m0102 from "./0102_ended_sessions";
 import * as m0230 from "./0230_open_and_fractional_steps";
 import * as m0240 from "./0240_thermal_reference_temperature";
+import * as m0330 from "./0330_ensembles";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -33,6 +34,7 @@ const list: Array<[string, Migration]> = [
   ["0102_ended_sessions", m0102],
   ["0230_open_and_fractional_steps", m0230],
   ["0240_thermal_reference_temperature", m0240],
+  ["0330_ensembles", m0330],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {
