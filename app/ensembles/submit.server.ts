@@ -1,33 +1,53 @@
 /**
- * Starts the computation of a created ensemble. This version works in the background of the
- * server process itself: chunks of members, one after another, yielding to the event loop
- * between chunks so pages and the API stay responsive; a cancelled ensemble stops at the next
- * chunk. The signature is what a queue-backed version keeps.
+ * Starts and stops the computation of a created ensemble on the compute queue (app/queue/):
+ * its members go out as chunk jobs of CHUNK_SIZE members, taken by whichever workers share the
+ * queue's Redis (the app server's own, `npm run worker` processes); the chunk that records the
+ * last member summarizes it. Progress is the members recorded (ensembleProgress).
  */
 import type { Knex } from "knex";
-import { setImmediate as nextTurn } from "node:timers/promises";
-import { ensembleProgress, failEnsemble, finishEnsembleIfComplete, getEnsembleWork, isEnsembleCancelRequested, recordMemberOutcomes } from "../../db/access/ensembles.server";
-import { runEnsembleChunk } from "./ensemble-task";
+import type { Queue } from "bullmq";
+import { ensembleProgress, failEnsemble, requestEnsembleCancel, type EnsembleStatus } from "../../db/access/ensembles.server";
+import { chunkJobId, chunkRanges } from "../queue/jobs";
+import { computeQueue, enqueue, removeWaiting } from "../queue/queue.server";
 
-/** Members per chunk in the background of the server process (small: each chunk blocks the event loop). */
-export const IN_PROCESS_CHUNK = 4;
+/** Longest wait for the queue's Redis to take the jobs, ms. */
+const ENQUEUE_TIMEOUT_MS = 10_000;
 
-async function work(db: Knex, id: number): Promise<void> {
-  const p = await ensembleProgress(db, id);
-  if (!p) return;
-  for (let from = 0; from < p.total; from += IN_PROCESS_CHUNK) {
-    if (await isEnsembleCancelRequested(db, id)) return;
-    const input = await getEnsembleWork(db, id, from, Math.min(from + IN_PROCESS_CHUNK, p.total));
-    const outcomes = runEnsembleChunk(input, {});
-    await recordMemberOutcomes(db, id, outcomes);
-    await nextTurn();
-  }
-  await finishEnsembleIfComplete(db, id);
+function withTimeout<T>(p: Promise<T>, ms: number, what: string): Promise<T> {
+  let timer: NodeJS.Timeout | undefined;
+  return Promise.race([p, new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error(what)), ms)))]).finally(() => clearTimeout(timer));
 }
 
-/** Runs the ensemble in the background; resolves once it is handed over, not when it ends. */
-export async function submitEnsemble(db: Knex, id: number): Promise<void> {
-  void work(db, id).catch(async (e: unknown) => {
-    await failEnsemble(db, id, `The ensemble stopped unexpectedly: ${(e as Error).message}`).catch(() => undefined);
-  });
+/**
+ * Queues the ensemble's chunks; resolves once they are queued, not when it ends. Queuing it
+ * twice adds nothing (one job id per chunk). When the queue cannot be reached the ensemble
+ * ends failed with that reason, so it never waits for nothing.
+ */
+export async function submitEnsemble(db: Knex, id: number, queue?: Queue): Promise<void> {
+  const p = await ensembleProgress(db, id);
+  if (!p || (p.status !== "queued" && p.status !== "running")) return;
+  const jobs = chunkRanges(p.total).map((r) => ({ data: { kind: "ensemble-chunk" as const, ensembleId: id, from: r.from, to: r.to }, jobId: chunkJobId(id, r.from) }));
+  try {
+    await withTimeout(enqueue(jobs, queue ?? computeQueue()), ENQUEUE_TIMEOUT_MS, "Redis did not answer in time");
+  } catch (e) {
+    await failEnsemble(db, id, `The compute queue could not take the ensemble (${(e as Error).message}); try again later.`);
+  }
+}
+
+/**
+ * Cancels the ensemble (it ends "cancelled" at once, members recorded so far kept), takes its
+ * chunks not yet started off the queue, and lets running chunks stop at their next member.
+ * Returns the status after, or null when there is no such ensemble.
+ */
+export async function cancelEnsemble(db: Knex, id: number, queue?: Queue): Promise<EnsembleStatus | null> {
+  const status = await requestEnsembleCancel(db, id);
+  if (status === "cancelled") {
+    // Best effort: a chunk left in the queue is skipped by the worker that takes it.
+    await withTimeout(
+      removeWaiting((d) => d.kind === "ensemble-chunk" && d.ensembleId === id, queue ?? computeQueue()),
+      ENQUEUE_TIMEOUT_MS,
+      "Redis did not answer in time",
+    ).catch(() => 0);
+  }
+  return status;
 }

@@ -28,7 +28,7 @@ export const probeJob = z.object({
   spinMs: z.number().int().nonnegative().max(60_000),
 });
 
-export const computeJob = z.discriminatedUnion("kind", [probeJob]);
+export const computeJob = z.discriminatedUnion("kind", [ensembleChunkJob, probeJob]);
 export type ComputeJob = z.infer<typeof computeJob>;
 export type JobKind = ComputeJob["kind"];
 

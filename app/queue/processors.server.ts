@@ -15,6 +15,14 @@ import type { Job } from "bullmq";
 import type { Redis } from "ioredis";
 import type { Knex } from "knex";
 import type { ComputeJob, JobKind } from "./jobs";
+import type { MemberOutcome } from "../ensembles/ensemble-task";
+import {
+  failEnsemble,
+  finishEnsembleIfComplete,
+  getEnsembleWork,
+  isEnsembleCancelRequested,
+  recordMemberOutcomes,
+} from "../../db/access/ensembles.server";
 
 export type ThreadRun = (kind: string, input: unknown, hooks?: { shouldStop?: () => Promise<boolean> }) => Promise<unknown>;
 
@@ -46,7 +54,29 @@ const probe: Processor<Extract<ComputeJob, { kind: "probe" }>> = {
   },
 };
 
+/**
+ * Members [from, to) of an ensemble: skipped when it was cancelled (or has ended); otherwise
+ * computed in a compute thread that stops between members once the ensemble is cancelled; the
+ * outcomes computed (all, or those before the stop) recorded by member index, so a retried chunk
+ * overwrites rather than adds; then the ensemble summarized if this was its last chunk.
+ */
+const ensembleChunk: Processor<Extract<ComputeJob, { kind: "ensemble-chunk" }>> = {
+  async run(d, ctx) {
+    const cancelled = () => isEnsembleCancelRequested(ctx.db, d.ensembleId);
+    if (await cancelled()) return { recorded: 0, finished: false };
+    const input = await getEnsembleWork(ctx.db, d.ensembleId, d.from, d.to);
+    const outcomes = (await ctx.runInThread("ensemble-chunk", input, { shouldStop: cancelled })) as MemberOutcome[];
+    await recordMemberOutcomes(ctx.db, d.ensembleId, outcomes);
+    const finished = await finishEnsembleIfComplete(ctx.db, d.ensembleId);
+    return { recorded: outcomes.length, finished };
+  },
+  async giveUp(d, db, reason) {
+    await failEnsemble(db, d.ensembleId, `Members ${d.from + 1} to ${d.to} could not be computed after several attempts (${reason}); the members recorded before are kept.`);
+  },
+};
+
 export const processors: { [K in JobKind]: Processor<Extract<ComputeJob, { kind: K }>> } = {
+  "ensemble-chunk": ensembleChunk,
   probe,
 };
 

@@ -2,7 +2,7 @@
  * Ensembles in the database: created with every member planned, in one transaction; work handed
  * out by index range; outcomes recorded idempotently (a retried chunk overwrites, never
  * duplicates); progress; finishing summarizes once, and a second call changes nothing; cancel;
- * fail; the in-process background computation end to end.
+ * fail.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { freshDatabase, type TestDatabase } from "../support/db";
@@ -20,7 +20,6 @@ import {
 } from "../../db/access/ensembles.server";
 import { planEnsemble } from "../../app/ensembles/ensemble-plan";
 import { runEnsembleChunk } from "../../app/ensembles/ensemble-task";
-import { submitEnsemble } from "../../app/ensembles/submit.server";
 import { documentOf, firstOrderStep, specOf } from "./fixtures";
 
 let t: TestDatabase;
@@ -40,16 +39,6 @@ async function make(s = spec) {
   const members = planEnsemble(s, doc);
   if (!members.ok) throw new Error(members.error.message);
   return createEnsemble(t.db, { ownerId: uid, name: "check", mechanismId: null, mechanismVersion: null, snapshot: doc, spec: s, members: members.value });
-}
-
-async function waitFor(id: number, pred: (s: string) => boolean, ms = 20_000) {
-  const until = Date.now() + ms;
-  for (;;) {
-    const p = (await ensembleProgress(t.db, id))!;
-    if (pred(p.status)) return p;
-    if (Date.now() > until) throw new Error(`ensemble ${id} stuck at ${p.status}`);
-    await new Promise((r) => setTimeout(r, 50));
-  }
 }
 
 describe("ensembles store", () => {
@@ -107,25 +96,5 @@ describe("ensembles store", () => {
     expect([e.status, e.statusReason]).toEqual(["failed", "The worker stopped."]);
   });
 
-  it("computes in the background of the server process to the end", async () => {
-    const id = await make();
-    await submitEnsemble(t.db, id);
-    const p = await waitFor(id, (s) => s === "done" || s === "failed");
-    expect(p).toEqual({ done: 12, total: 12, status: "done" });
-  });
-
-  it("a cancelled background computation stops early", async () => {
-    const big = specOf({ uncertainty: { samples: 2000, sampler: "latin-hypercube", seed: 5, defaultSigma: { value: 3, unit: "kJ/mol" } } });
-    const id = await make(big);
-    await submitEnsemble(t.db, id);
-    await waitFor(id, (s) => s === "running");
-    await requestEnsembleCancel(t.db, id);
-    await new Promise((r) => setTimeout(r, 300));
-    const p1 = (await ensembleProgress(t.db, id))!;
-    await new Promise((r) => setTimeout(r, 300));
-    const p2 = (await ensembleProgress(t.db, id))!;
-    expect(p2.status).toBe("cancelled");
-    expect(p2.done).toBeLessThan(2000);
-    expect(p2.done - p1.done).toBeLessThanOrEqual(4);
-  });
+  // Computing on the compute queue (workers, retries, cancellation): tests/queue/ensemble-queue.test.ts.
 });
