@@ -1,8 +1,11 @@
 /**
  * The app server's own compute-queue workers: QUEUE_WORKERS jobs at once (default 1), each in a
  * compute thread, run by the production server's supervisor (scripts/serve.ts) and, under
- * `npm run dev`, by scripts/start.ts. `npm run worker` adds more on any machine.
+ * `npm run dev`, by scripts/start.ts. `npm run worker` adds more on any machine; tests and the
+ * queue benchmark start such processes with spawnWorkerProcess.
  */
+import { spawn, type ChildProcess } from "node:child_process";
+import { resolve } from "node:path";
 import knexFactory from "knex";
 import { knexConfigFromUrl } from "../db/config";
 import { connectionFromUrl } from "../app/queue/connection.server";
@@ -43,4 +46,39 @@ export async function startQueueWorkers(opts: { databaseUrl: string; redisUrl: s
       await db.destroy();
     },
   };
+}
+
+export interface WorkerChild {
+  child: ChildProcess;
+  /** Resolves when the worker prints that it is taking jobs. */
+  ready: Promise<void>;
+  output: () => string;
+  exited: Promise<number | null>;
+}
+
+/** `npm run worker` (scripts/worker.ts) as a child process on the given Redis, queue prefix and database. */
+export function spawnWorkerProcess(env: { REDIS_URL: string; DATABASE_URL: string; QUEUE_PREFIX: string; concurrency?: number; lockMs?: number }): WorkerChild {
+  const root = resolve(import.meta.dirname, "..");
+  const child = spawn(process.execPath, ["--import", "tsx", "scripts/worker.ts", "--concurrency", String(env.concurrency ?? 1)], {
+    cwd: root,
+    env: {
+      ...process.env,
+      REDIS_URL: env.REDIS_URL,
+      DATABASE_URL: env.DATABASE_URL,
+      QUEUE_PREFIX: env.QUEUE_PREFIX,
+      ...(env.lockMs ? { QUEUE_LOCK_MS: String(env.lockMs) } : {}),
+    },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let out = "";
+  let readyDone: () => void = () => {};
+  const ready = new Promise<void>((r) => (readyDone = r));
+  const onData = (b: Buffer) => {
+    out += b.toString();
+    if (out.includes("Compute worker ready")) readyDone();
+  };
+  child.stdout!.on("data", onData);
+  child.stderr!.on("data", onData);
+  const exited = new Promise<number | null>((r) => child.once("exit", (code) => r(code)));
+  return { child, ready, output: () => out, exited };
 }

@@ -41,7 +41,7 @@ async function main(): Promise<void> {
   const db = knexFactory(knexConfigFromUrl(dbUrl, { min: 0, max: Math.max(2, concurrency + 1) }));
   const log = (line: string) => console.log(line);
   const handle = startQueueWorker({ db, concurrency, log, ...lock });
-  await handle.worker.waitUntilReady();
+  await Promise.all([handle.worker.waitUntilReady(), handle.warmUp()]);
 
   let stopping = 0;
   const stop = () => {

@@ -35,6 +35,11 @@ export default async function computeTask({ kind = "run", input, progress, contr
     const res = ratesApi.answerRates(JSON.parse(input.text), input.text);
     return { status: res.status, headers: [...res.headers], body: await res.text() };
   }
+  if (kind === "warm-up") {
+    // A queue worker loads the engine before it takes jobs, so the first job is not slower.
+    ensembleTask ??= await tsImport("../ensembles/ensemble-task.ts", import.meta.url);
+    return null;
+  }
   if (kind === "ensemble-chunk") {
     const prog = new Float64Array(progress);
     ensembleTask ??= await tsImport("../ensembles/ensemble-task.ts", import.meta.url);

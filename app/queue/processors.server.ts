@@ -17,6 +17,7 @@ import type { Knex } from "knex";
 import type { ComputeJob, JobKind } from "./jobs";
 import type { MemberOutcome } from "../ensembles/ensemble-task";
 import {
+  ensembleProgress,
   failEnsemble,
   finishEnsembleIfComplete,
   getEnsembleWork,
@@ -67,7 +68,9 @@ const ensembleChunk: Processor<Extract<ComputeJob, { kind: "ensemble-chunk" }>> 
     const input = await getEnsembleWork(ctx.db, d.ensembleId, d.from, d.to);
     const outcomes = (await ctx.runInThread("ensemble-chunk", input, { shouldStop: cancelled })) as MemberOutcome[];
     await recordMemberOutcomes(ctx.db, d.ensembleId, outcomes);
-    const finished = await finishEnsembleIfComplete(ctx.db, d.ensembleId);
+    // Summarize only once all are recorded (a cheap count first; the last chunk to record sees them all).
+    const p = await ensembleProgress(ctx.db, d.ensembleId);
+    const finished = !!p && p.done >= p.total && (await finishEnsembleIfComplete(ctx.db, d.ensembleId));
     return { recorded: outcomes.length, finished };
   },
   async giveUp(d, db, reason) {

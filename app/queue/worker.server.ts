@@ -51,6 +51,8 @@ export interface QueueWorkerOptions {
 
 export interface QueueWorker {
   worker: Worker;
+  /** Starts the compute threads and loads the engine in them (a worker process does this before it says it is ready). */
+  warmUp(): Promise<void>;
   /** Finishes the jobs it holds (or, with force, abandons them to be retried elsewhere) and stops. */
   close(force?: boolean): Promise<void>;
 }
@@ -136,6 +138,10 @@ export function startQueueWorker(opts: QueueWorkerOptions): QueueWorker {
 
   return {
     worker,
+    async warmUp() {
+      const nothing = new SharedArrayBuffer(16);
+      await Promise.all(Array.from({ length: opts.concurrency }, () => pool.run({ kind: "warm-up", input: null, progress: nothing, control: new SharedArrayBuffer(4) })));
+    },
     async close(force = false) {
       await worker.close(force);
       await pool.destroy();

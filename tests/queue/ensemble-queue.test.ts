@@ -7,7 +7,7 @@
  */
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { freshDatabase, type TestDatabase } from "../support/db";
-import { freshQueue, startWorkerChild, type TestQueue, type WorkerChild } from "../support/queue";
+import { freshQueue, startWorkerChild, stopWorkers, until, type TestQueue, type WorkerChild } from "../support/queue";
 import { createEnsemble, ensembleProgress, getEnsemble, listEnsembleMembers } from "../../db/access/ensembles.server";
 import { planEnsemble } from "../../app/ensembles/ensemble-plan";
 import { runEnsembleChunk } from "../../app/ensembles/ensemble-task";
@@ -36,8 +36,7 @@ beforeEach(async () => {
   q = await freshQueue();
 });
 afterEach(async () => {
-  for (const c of children.splice(0)) if (c.child.exitCode === null) c.child.kill("SIGKILL");
-  await Promise.all(workers.splice(0).map((w) => w.close(true)));
+  await stopWorkers(children, workers);
   await q.drop();
 });
 
@@ -51,16 +50,6 @@ function inProcessWorker(concurrency = 1): QueueWorker {
   const w = startQueueWorker({ db: t.db, concurrency, connection: connectionFromUrl(q.url), prefix: q.prefix });
   workers.push(w);
   return w;
-}
-
-async function until<T>(read: () => Promise<T>, ok: (v: T) => boolean, timeoutMs: number, stepMs = 100): Promise<T> {
-  const end = Date.now() + timeoutMs;
-  for (;;) {
-    const v = await read();
-    if (ok(v)) return v;
-    if (Date.now() > end) throw new Error(`not reached in time (last: ${JSON.stringify(v)})`);
-    await new Promise((r) => setTimeout(r, stepMs));
-  }
 }
 
 /** Every member has exactly one row, recorded; its values equal the same member computed here. */

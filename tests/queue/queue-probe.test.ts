@@ -9,7 +9,7 @@ import { connectionFromUrl } from "../../app/queue/connection.server";
 import { enqueue, removeWaiting } from "../../app/queue/queue.server";
 import { startQueueWorker, type QueueWorker } from "../../app/queue/worker.server";
 import { probeKeys } from "../../app/queue/processors.server";
-import { freshQueue, startWorkerChild, type TestQueue, type WorkerChild } from "../support/queue";
+import { freshQueue, startWorkerChild, stopWorkers, until, type TestQueue, type WorkerChild } from "../support/queue";
 
 let q: TestQueue;
 const workers: QueueWorker[] = [];
@@ -20,19 +20,9 @@ beforeEach(async () => {
 });
 
 afterEach(async () => {
-  for (const c of children.splice(0)) if (c.child.exitCode === null) c.child.kill("SIGKILL");
-  await Promise.all(workers.splice(0).map((w) => w.close(true)));
+  await stopWorkers(children, workers);
   await q.drop();
 });
-
-async function until(check: () => Promise<boolean>, timeoutMs: number): Promise<void> {
-  const end = Date.now() + timeoutMs;
-  while (Date.now() < end) {
-    if (await check()) return;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error("condition not reached in time");
-}
 
 const noDb = {} as Knex; // the probe job does not use the database
 
@@ -47,13 +37,13 @@ describe("compute queue (probe jobs)", () => {
     // The same job id again is not a second job.
     await enqueue([{ data: { kind: "probe", key, index: 0, spinMs: 20 }, jobId: "probe-0" }], q.queue);
     const keys = probeKeys(key);
-    await until(async () => (await q.redis.hlen(keys.done)) === 12, 20_000);
+    await until(async () => (await q.redis.hlen(keys.done)) === 12, Boolean, 20_000);
     const runs = await q.redis.hgetall(keys.runs);
     expect(Object.keys(runs)).toHaveLength(12);
     expect(Object.values(runs).every((n) => n === "1")).toBe(true);
     const done = await q.redis.hgetall(keys.done);
     expect(done["7"]).toBe("49");
-    await until(async () => (await q.queue.getJobCounts("completed")).completed === 12, 5000);
+    await until(async () => (await q.queue.getJobCounts("completed")).completed === 12, Boolean, 5000);
   });
 
   it("removes waiting jobs and stops running ones when asked", async () => {
@@ -64,11 +54,11 @@ describe("compute queue (probe jobs)", () => {
       Array.from({ length: 5 }, (_, index) => ({ data: { kind: "probe" as const, key, index, spinMs: 20_000 } })),
       q.queue,
     );
-    await until(async () => (await q.redis.hlen(keys.runs)) === 1, 10_000);
+    await until(async () => (await q.redis.hlen(keys.runs)) === 1, Boolean, 10_000);
     const removed = await removeWaiting((d) => d.kind === "probe" && d.key === key, q.queue);
     expect(removed).toBe(4);
     await q.redis.set(keys.stop, "1");
-    await until(async () => (await q.queue.getJobCounts("completed")).completed === 1, 5000);
+    await until(async () => (await q.queue.getJobCounts("completed")).completed === 1, Boolean, 5000);
     expect(await q.redis.hlen(keys.done)).toBe(0);
     expect(await q.redis.hlen(keys.runs)).toBe(1);
   });
@@ -81,13 +71,13 @@ describe("compute queue (probe jobs)", () => {
     children.push(first);
     await first.ready;
     await enqueue([{ data: { kind: "probe", key, index: 3, spinMs: 4000 } }], q.queue);
-    await until(async () => (await q.redis.hlen(keys.runs)) === 1, 15_000);
+    await until(async () => (await q.redis.hlen(keys.runs)) === 1, Boolean, 15_000);
     first.child.kill("SIGKILL");
     await first.exited;
     const second = startWorkerChild(env);
     children.push(second);
     await second.ready;
-    await until(async () => (await q.redis.hget(keys.done, "3")) === "9", 30_000);
+    await until(async () => (await q.redis.hget(keys.done, "3")) === "9", Boolean, 30_000);
     expect(await q.redis.hget(keys.runs, "3")).toBe("2");
     second.child.kill("SIGTERM");
     expect(await second.exited).toBe(0);

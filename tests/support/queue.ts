@@ -1,15 +1,15 @@
 /**
  * The compute queue in tests: the test Redis (REDIS_TEST_URL, started by the global setup or
  * `npm test`) under a prefix of each test's own, so test files never see each other's jobs;
- * and `npm run worker` children pointed at it.
+ * `npm run worker` children pointed at it; waiting for a condition; stopping what a test started.
  */
-import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { resolve } from "node:path";
 import type { Queue } from "bullmq";
 import { Redis } from "ioredis";
 import { connectionFromUrl } from "../../app/queue/connection.server";
 import { computeQueue } from "../../app/queue/queue.server";
+import type { QueueWorker } from "../../app/queue/worker.server";
+import type { WorkerChild } from "../../scripts/queue-workers";
 
 export function testRedisUrl(): string {
   const url = process.env.REDIS_TEST_URL;
@@ -46,37 +46,21 @@ export async function freshQueue(): Promise<TestQueue> {
   };
 }
 
-export interface WorkerChild {
-  child: ChildProcess;
-  /** Resolves when the worker prints that it is taking jobs. */
-  ready: Promise<void>;
-  output: () => string;
-  exited: Promise<number | null>;
+export { spawnWorkerProcess as startWorkerChild, type WorkerChild } from "../../scripts/queue-workers";
+
+/** Polls `read` until `ok` holds of its value (which it returns), or throws after `timeoutMs`. */
+export async function until<T>(read: () => Promise<T>, ok: (v: T) => boolean, timeoutMs: number, stepMs = 100): Promise<T> {
+  const end = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await read();
+    if (ok(v)) return v;
+    if (Date.now() > end) throw new Error(`not reached in time (last: ${JSON.stringify(v)})`);
+    await new Promise((r) => setTimeout(r, stepMs));
+  }
 }
 
-/** `npm run worker` (tsx scripts/worker.ts) as a child on the test queue and database. */
-export function startWorkerChild(env: { REDIS_URL: string; DATABASE_URL: string; QUEUE_PREFIX: string; concurrency?: number; lockMs?: number }): WorkerChild {
-  const root = resolve(import.meta.dirname, "../..");
-  const child = spawn(process.execPath, ["--import", "tsx", "scripts/worker.ts", "--concurrency", String(env.concurrency ?? 1)], {
-    cwd: root,
-    env: {
-      ...process.env,
-      REDIS_URL: env.REDIS_URL,
-      DATABASE_URL: env.DATABASE_URL,
-      QUEUE_PREFIX: env.QUEUE_PREFIX,
-      ...(env.lockMs ? { QUEUE_LOCK_MS: String(env.lockMs) } : {}),
-    },
-    stdio: ["ignore", "pipe", "pipe"],
-  });
-  let out = "";
-  let readyDone: () => void = () => {};
-  const ready = new Promise<void>((r) => (readyDone = r));
-  const onData = (b: Buffer) => {
-    out += b.toString();
-    if (out.includes("Compute worker ready")) readyDone();
-  };
-  child.stdout!.on("data", onData);
-  child.stderr!.on("data", onData);
-  const exited = new Promise<number | null>((r) => child.once("exit", (code) => r(code)));
-  return { child, ready, output: () => out, exited };
+/** Kills the worker children and force-closes the in-process workers a test started. */
+export async function stopWorkers(children: WorkerChild[], workers: QueueWorker[]): Promise<void> {
+  for (const c of children.splice(0)) if (c.child.exitCode === null) c.child.kill("SIGKILL");
+  await Promise.all(workers.splice(0).map((w) => w.close(true)));
 }
