@@ -125,15 +125,24 @@ export function startQueueWorker(opts: QueueWorkerOptions): QueueWorker {
       maxStalledCount: MAX_STALLED,
     },
   );
-  worker.on("error", (e) => log(`Compute queue: ${e.message}`));
+  // While Redis is away the connection reports every reconnection attempt: say it once a minute.
+  let lastError = { text: "", at: 0 };
+  worker.on("error", (e) => {
+    const now = Date.now();
+    if (e.message === lastError.text && now - lastError.at < 60_000) return;
+    lastError = { text: e.message, at: now };
+    log(`Compute queue: ${e.message}`);
+  });
   worker.on("failed", (job, err) => {
     if (!job) return;
-    const final = err instanceof UnrecoverableError || job.attemptsMade >= (job.opts.attempts ?? 1);
-    log(`Compute job ${job.id} (${job.name}) failed${final ? "" : ", to be retried"}: ${err.message}`);
-    if (!final) return;
-    const parsed = computeJob.safeParse(job.data);
-    if (!parsed.success) return;
-    void processorFor(parsed.data).giveUp?.(parsed.data, opts.db, err.message).catch((e: Error) => log(`Compute job ${job.id}: could not record the failure (${e.message}).`));
+    void (async () => {
+      // Failed for good (attempts used up, stalled too often, or unrecoverable), or waiting for a retry?
+      const final = (await job.getState()) === "failed";
+      log(`Compute job ${job.id} (${job.name}) failed${final ? "" : ", to be retried"}: ${err.message}`);
+      if (!final) return;
+      const parsed = computeJob.safeParse(job.data);
+      if (parsed.success) await processorFor(parsed.data).giveUp?.(parsed.data, opts.db, err.message);
+    })().catch((e: Error) => log(`Compute job ${job.id}: could not record the failure (${e.message}).`));
   });
 
   return {
