@@ -19,6 +19,8 @@ export default [
   route("runs/new", "routes/runs.new.tsx"),
   route("runs/compare", "routes/runs.compare.tsx"),
   route("runs/:id", "routes/runs.$id.tsx"),
+  route("mechanisms/:id/ensembles/new", "routes/ensembles.new.tsx"),
+  route("ensembles/:id", "routes/ensembles.$id.tsx"),
 
   // Accounts, groups and sign-in
   route("sign-in", "routes/sign-in.tsx"),
@@ -47,6 +49,11 @@ export default [
   route("api/v1/runs/:id", "routes/api.v1.runs.$id.ts"),
   route("api/v1/runs/:id/cancel", "routes/api.v1.runs.$id.cancel.ts"),
   route("api/v1/runs/:id/results.csv", "routes/api.v1.runs.$id.results-csv.ts"),
+  route("api/v1/ensembles", "routes/api.v1.ensembles.ts"),
+  route("api/v1/ensembles/:id", "routes/api.v1.ensembles.$id.ts"),
+  route("api/v1/ensembles/:id/cancel", "routes/api.v1.ensembles.$id.cancel.ts"),
+  route("api/v1/ensembles/:id/members.csv", "routes/api.v1.ensembles.$id.members-csv.ts"),
+  route("api/v1/ensembles/:id/summary.csv", "routes/api.v1.ensembles.$id.summary-csv.ts"),
   route("api/v1/datasets", "routes/api.v1.datasets.ts"),
   route("api/v1/datasets/:id", "routes/api.v1.datasets.$id.ts"),
   route("api/v1/steps", "routes/api.v1.steps.ts"),

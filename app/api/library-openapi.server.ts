@@ -25,6 +25,7 @@ import { SimulateRequestSchema } from "./compute-simulate.server";
 import { ActivationRequestSchema } from "./compute-activation.server";
 import { RunCreateSchema } from "../compute/run-api.server";
 import { DatasetCreateSchema } from "../compute/dataset-api.server";
+import { EnsembleSpecSchema } from "../ensembles/ensemble-spec";
 
 const ErrorBodySchema = z.strictObject({
   error: z.strictObject({
@@ -56,6 +57,7 @@ const SCHEMAS: Record<string, z.ZodType> = {
   ActivationParametersRequest: ActivationRequestSchema,
   RunCreate: RunCreateSchema,
   DatasetCreate: DatasetCreateSchema,
+  EnsembleCreate: EnsembleSpecSchema,
 };
 
 function componentSchemas(): Record<string, unknown> {
@@ -217,6 +219,40 @@ export function openApiDocument(): Record<string, unknown> {
       "/runs/{id}/results.csv": {
         get: {
           summary: "A finished run's concentrations as CSV (time in s, concentrations in mol/L)",
+          parameters: [idParam()],
+          responses: { 200: { description: "CSV text", content: { "text/csv": { schema: { type: "string" } } } }, ...errors(401, 404, 409) },
+        },
+      },
+      "/ensembles": {
+        get: {
+          summary: "Ensembles you can read, newest first",
+          parameters: [{ name: "mechanismId", in: "query", schema: { type: "integer", minimum: 1 } }, { name: "limit", in: "query", schema: { type: "integer", minimum: 1, default: 100 } }],
+          responses: { 200: ok("{ensembles: [ensemble]}"), ...errors(401) },
+        },
+        post: {
+          summary: "Store an ensemble of simulations of a stored mechanism version — a sweep of one or two parameters (T, an initial concentration, a step's barrier shift) or an uncertainty propagation (Monte Carlo or Latin hypercube, barrier errors correlated by method) — and start it",
+          requestBody: { required: true, ...json("EnsembleCreate") },
+          responses: { 202: ok("{ensemble}; Location names it"), ...errors(400, 401, 403, 404, 405, 413, 422) },
+        },
+      },
+      "/ensembles/{id}": {
+        get: {
+          summary: "An ensemble: status, progress (members done of total), labels by name; when done the summary (per observable and time: mean, sd, percentiles; histograms at the chosen times; rank-correlation sensitivities)",
+          parameters: [idParam()],
+          responses: { 200: ok("{ensemble}"), ...errors(401, 404, 405) },
+        },
+      },
+      "/ensembles/{id}/cancel": { post: { summary: "Cancel a queued or running ensemble (owner or admin); members already computed are kept", parameters: [idParam()], responses: { 202: ok("{ensemble}"), ...errors(401, 403, 404, 405, 409) } } },
+      "/ensembles/{id}/members.csv": {
+        get: {
+          summary: "One row per member: T (K), initial concentrations (mol/L) and barrier shifts (kJ/mol) by name, then each observable at each chosen time (fraction)",
+          parameters: [idParam()],
+          responses: { 200: { description: "CSV text", content: { "text/csv": { schema: { type: "string" } } } }, ...errors(401, 404) },
+        },
+      },
+      "/ensembles/{id}/summary.csv": {
+        get: {
+          summary: "A finished ensemble's distributions: per observable and output time, members, mean, sd and the 5/25/50/75/95th percentiles (fractions)",
           parameters: [idParam()],
           responses: { 200: { description: "CSV text", content: { "text/csv": { schema: { type: "string" } } } }, ...errors(401, 404, 409) },
         },

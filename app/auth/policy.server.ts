@@ -42,6 +42,7 @@ export type Action =
   | { do: "mechanism.delete"; object: OwnedObject }
   | { do: "run.create"; object: OwnedObject } // object: the mechanism
   | { do: "run.read"; object: OwnedObject }
+  | { do: "run.cancel"; object: OwnedObject } // runs and ensembles: their owner or an admin
   | { do: "dataset.create" }
   | { do: "dataset.read"; object: OwnedObject }
   | { do: "dataset.write"; object: OwnedObject }
@@ -87,6 +88,8 @@ export function can(actor: Actor | null, action: Action): boolean {
     case "dataset.create":
     case "step.create":
       return atLeast(actor, "author");
+    case "run.cancel":
+      return !!actor && (action.object.ownerId === actor.id || actor.role === "admin");
     case "mechanism.write":
     case "mechanism.delete":
     case "dataset.write":

@@ -190,7 +190,7 @@ export async function handleListRuns(db: Knex, actor: Actor, request: Request): 
 }
 
 export async function cancelRun(db: Knex, actor: Actor, run: RunRecord): Promise<{ ok: true; status: string } | { ok: false; response: Response }> {
-  if (run.ownerId !== actor.id && actor.role !== "admin") return { ok: false, response: apiError(403, "forbidden", "Only the owner of a run can cancel it.") };
+  if (!can(actor, { do: "run.cancel", object: runAsOwned(run) })) return { ok: false, response: apiError(403, "forbidden", "Only the owner of a run can cancel it.") };
   if (run.status !== "queued" && run.status !== "running") {
     return { ok: false, response: apiError(409, "not_running", `Run ${run.id} has already ended (${run.status}); there is nothing to cancel.`) };
   }

@@ -19,10 +19,12 @@ export interface CsvSeriesColumn {
   note?: string;
 }
 
-const esc = (v: string) => (/[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
-const cell = (x: number | null | undefined) => (x == null || !Number.isFinite(x) ? "" : String(x));
+/** A text cell, quoted when it holds a comma, quote or line break. */
+export const esc = (v: string) => (/[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
+/** A number cell at full precision; empty for a missing or non-finite value. */
+export const cell = (x: number | null | undefined) => (x == null || !Number.isFinite(x) ? "" : String(x));
 /** Comment text on one line. */
-const flat = (v: string) => v.replace(/[\r\n]+/g, " ");
+export const flat = (v: string) => v.replace(/[\r\n]+/g, " ");
 
 /** Header texts "name (unit)", made unique by appending " [2]", " [3]" … to repeats. */
 export function columnHeaders(columns: CsvSeriesColumn[]): string[] {
