@@ -25,14 +25,13 @@ import {
   getEnsemble,
   listEnsembleMembers,
   listEnsembles,
-  requestEnsembleCancel,
   type EnsembleRecord,
 } from "../../db/access/ensembles.server";
 import { EnsembleSpecSchema, type EnsembleSpec } from "./ensemble-spec";
 import { observablesOf, planEnsemble, resolveEnsemble } from "./ensemble-plan";
 import { observableLabel, parameterLabel } from "./ensemble-labels";
 import { membersCsv, summaryCsv } from "./ensemble-csv";
-import { submitEnsemble } from "./submit.server";
+import { cancelEnsembleWork, submitEnsemble } from "./submit.server";
 
 /** Labels of an ensemble's observables and sampled parameters, by key (names, never ids). */
 function labels(spec: EnsembleSpec, key: NameKey) {
@@ -137,7 +136,7 @@ export async function handleListEnsembles(db: Knex, actor: Actor, request: Reque
 export async function cancelEnsemble(db: Knex, actor: Actor, e: EnsembleRecord): Promise<{ ok: true } | { ok: false; response: Response }> {
   if (!can(actor, { do: "run.cancel", object: ensembleAsOwned(e) })) return { ok: false, response: apiError(403, "forbidden", "Only the owner of an ensemble can cancel it.") };
   if (e.status !== "queued" && e.status !== "running") return { ok: false, response: apiError(409, "not_running", `Ensemble ${e.id} has already ended (${e.status}); there is nothing to cancel.`) };
-  await requestEnsembleCancel(db, e.id);
+  await cancelEnsembleWork(db, e.id);
   return { ok: true };
 }
 

@@ -39,7 +39,7 @@ export async function submitEnsemble(db: Knex, id: number, queue?: Queue): Promi
  * chunks not yet started off the queue, and lets running chunks stop at their next member.
  * Returns the status after, or null when there is no such ensemble.
  */
-export async function cancelEnsemble(db: Knex, id: number, queue?: Queue): Promise<EnsembleStatus | null> {
+export async function cancelEnsembleWork(db: Knex, id: number, queue?: Queue): Promise<EnsembleStatus | null> {
   const status = await requestEnsembleCancel(db, id);
   if (status === "cancelled") {
     // Best effort: a chunk left in the queue is skipped by the worker that takes it.

@@ -8,12 +8,16 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { apiCaller } from "../support/api-auth-stand-in";
 import { freshDatabase, type TestDatabase } from "../support/db";
 import { firstOrderStep } from "./fixtures";
+import { testRedisUrl } from "../support/queue";
+import { startQueueWorker, type QueueWorker } from "../../app/queue/worker.server";
+import { closeQueues, computeQueue } from "../../app/queue/queue.server";
 
 vi.mock("~/auth/api-auth.server", () => import("../support/api-auth-stand-in"));
 const auth = apiCaller;
 
 let t: TestDatabase;
 let mid = 0;
+let worker: QueueWorker | undefined;
 let list: typeof import("../../app/routes/api.v1.ensembles");
 let one: typeof import("../../app/routes/api.v1.ensembles.$id");
 let cancel: typeof import("../../app/routes/api.v1.ensembles.$id.cancel");
@@ -34,6 +38,10 @@ const mechanism = {
 beforeAll(async () => {
   t = await freshDatabase();
   process.env.DATABASE_URL = t.url;
+  // The ensembles' compute queue: the test Redis under a prefix of this file's own, one worker.
+  process.env.REDIS_URL = testRedisUrl();
+  process.env.QUEUE_PREFIX = `sbt_api_${Date.now().toString(36)}`;
+  worker = startQueueWorker({ db: t.db, concurrency: 1 });
   const [uid] = await t.db("users").insert({ email: "ens-api@example.test", name: "Ensemble API tester", role: "author" });
   Object.assign(auth, { userId: uid, email: "ens-api@example.test", name: "Ensemble API tester" });
   const { importMechanism } = await import("../../db/access/mechanisms.server");
@@ -46,6 +54,9 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  await worker?.close(true);
+  await computeQueue().obliterate({ force: true }).catch(() => {});
+  await closeQueues();
   const { getDb } = await import("../../db/client.server");
   await new Promise((r) => setTimeout(r, 300));
   await getDb().destroy();

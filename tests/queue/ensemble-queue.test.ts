@@ -11,7 +11,7 @@ import { freshQueue, startWorkerChild, stopWorkers, until, type TestQueue, type 
 import { createEnsemble, ensembleProgress, getEnsemble, listEnsembleMembers } from "../../db/access/ensembles.server";
 import { planEnsemble } from "../../app/ensembles/ensemble-plan";
 import { runEnsembleChunk } from "../../app/ensembles/ensemble-task";
-import { cancelEnsemble, submitEnsemble } from "../../app/ensembles/submit.server";
+import { cancelEnsembleWork, submitEnsemble } from "../../app/ensembles/submit.server";
 import { connectionFromUrl } from "../../app/queue/connection.server";
 import { startQueueWorker, type QueueWorker } from "../../app/queue/worker.server";
 import { CHUNK_SIZE } from "../../app/queue/jobs";
@@ -113,7 +113,7 @@ describe("ensembles on the compute queue", () => {
     await submitEnsemble(t.db, id, q.queue);
     inProcessWorker();
     await until(() => ensembleProgress(t.db, id), (v) => v!.done >= CHUNK_SIZE, 60_000);
-    expect(await cancelEnsemble(t.db, id, q.queue)).toBe("cancelled");
+    expect(await cancelEnsembleWork(t.db, id, q.queue)).toBe("cancelled");
     const waiting = (await q.queue.getJobs(["waiting", "delayed"])).filter((j) => j.data.ensembleId === id);
     expect(waiting).toHaveLength(0);
     await until(() => q.queue.getActiveCount(), (n) => n === 0, 20_000);
