@@ -50,9 +50,9 @@ describe.skipIf(!process.env.APP_URL)("the production server's own queue workers
     const [uid] = await t.db("users").insert({ email: "server-queue@example.test", name: "Server queue", role: "author" });
     const id = await createEnsemble(t.db, { ownerId: uid, mechanismId: null, mechanismVersion: null, snapshot: net.document, spec, members: members.value });
     await submitEnsemble(t.db, id, q.queue);
-    const p = await until(() => ensembleProgress(t.db, id), (v) => v!.status !== "queued" && v!.status !== "running", 90_000, 250);
+    const p = await until(() => ensembleProgress(t.db, id), (v) => v!.status !== "queued" && v!.status !== "running", 180_000, 250);
     expect(p).toEqual({ done: 2 * CHUNK_SIZE, total: 2 * CHUNK_SIZE, status: "done" });
-  }, 120_000);
+  }, 240_000);
 
   it("reports the queue's Redis in its health answer", async () => {
     const r = await fetch(app!.url + "/api/v1/health");
