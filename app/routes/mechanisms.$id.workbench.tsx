@@ -29,6 +29,7 @@ import { getMechanism, getMechanismRow, owned } from "../../db/access/mechanisms
 import { applyGraphEdit, graphEditFailure } from "~/compute/graph-edit.server";
 import { AddStepControl, StepEditPanel, type EntryInfo } from "~/components/workbench/GraphEditing";
 import { listRuns } from "../../db/access/runs.server";
+import { listEnsembles } from "../../db/access/ensembles.server";
 import { NotFoundError } from "../../db/access/library-errors";
 import { useLeaveGuard } from "~/components/LeaveGuard";
 
@@ -54,6 +55,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const loaded = await loadMechanismDocument(getDb(), user, id, v);
   if (!loaded.ok) throw new Response(loaded.message, { status: loaded.status });
   const runs = await listRuns(getDb(), user, { mechanismId: id, limit: 20 });
+  const ensembles = await listEnsembles(getDb(), user, { mechanismId: id, limit: 20 });
   const canWrite = can(user, { do: "mechanism.write", object: owned(row) });
   // Which steps are pinned library versions (and which have a newer approved one), for the side panel.
   const detail = await getMechanism(getDb(), user, id, loaded.version);
@@ -76,6 +78,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     allSpecies,
     canRun: can(user, { do: "run.create", object: owned(row) }),
     runs: runs.map((r) => ({ id: r.id, name: r.name, status: r.status, version: r.mechanismVersion, createdAt: r.createdAt.toISOString() })),
+    ensembles: ensembles.map((e) => ({ id: e.id, name: e.name, status: e.status, version: e.mechanismVersion })),
   };
 }
 
@@ -328,6 +331,17 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
               ))}
             </div>
           )}
+          <div className="flex flex-wrap items-center gap-2 text-xs text-ink-500">
+            <Link to={`/mechanisms/${L.id}/ensembles/new`} className="btn-quiet py-0.5" data-testid="new-ensemble">
+              New ensemble
+            </Link>
+            {L.ensembles.length > 0 && <span>Ensembles:</span>}
+            {L.ensembles.map((e) => (
+              <Link key={e.id} to={`/ensembles/${e.id}`} className="underline">
+                #{e.id} {e.name} ({e.status}, v{e.version})
+              </Link>
+            ))}
+          </div>
         </div>
       </section>
 

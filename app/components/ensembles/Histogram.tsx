@@ -8,6 +8,8 @@ export function Histogram({ title, bins, width = 300, height = 170, testId }: { 
   const max = Math.max(1, ...bins.map((b) => b.count));
   const lo = bins[0]?.from ?? 0, hi = bins[bins.length - 1]?.to ?? 1;
   const span = hi > lo ? hi - lo : 1;
+  // enough digits to tell the ends apart on a narrow range
+  const digits = Math.min(12, Math.max(3, Math.ceil(Math.log10(Math.max(Math.abs(lo), Math.abs(hi), 1e-300) / span)) + 2));
   const x = (v: number) => m.l + (bins.length === 1 ? 0.5 * pw : ((v - lo) / span) * pw);
   return (
     <svg viewBox={`0 0 ${width} ${height}`} width={width} height={height} role="img" aria-label={title} data-testid={testId} className="max-w-full">
@@ -26,10 +28,10 @@ export function Histogram({ title, bins, width = 300, height = 170, testId }: { 
         );
       })}
       <text x={m.l} y={height - 14} fontSize={10} fill="#3b5063">
-        {formatNumber(lo, 3)}
+        {formatNumber(lo, digits)}
       </text>
       <text x={m.l + pw} y={height - 14} fontSize={10} textAnchor="end" fill="#3b5063">
-        {formatNumber(hi, 3)}
+        {formatNumber(hi, digits)}
       </text>
       <text x={m.l + pw / 2} y={height - 3} fontSize={10.5} textAnchor="middle" fill="#223040">
         fraction

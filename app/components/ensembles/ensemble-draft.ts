@@ -75,9 +75,14 @@ const num = (s: string) => (s.trim() === "" ? NaN : Number(s.trim().replace(/\u2
 
 export type BuiltEnsemble = { ok: true; spec: EnsembleSpec } | { ok: false; errors: Record<string, string> };
 
-/** Request path → form field key ("samples", "sigma.s1", "axis0.from", "times", …). */
+/** Request path (array or dotted, "sweep[0].from.value" alike) → form field key ("samples", "sigma.s1", "axis0.from", "times", …). */
 export function ensembleDraftKey(path: (string | number)[]): string {
-  const p = path.map(String);
+  const p = path
+    .map(String)
+    .join(".")
+    .replace(/\[(\d+)\]/g, ".$1")
+    .split(".")
+    .filter(Boolean);
   if (p[0] === "uncertainty") {
     if (p[1] === "sigma") return `sigma.${p[2]}`;
     if (p[1] === "correlation") return `correlation.${p[2]}`;
@@ -85,17 +90,10 @@ export function ensembleDraftKey(path: (string | number)[]): string {
     return p[1] ?? "samples";
   }
   if (p[0] === "sweep") {
-    const m = /^sweep\[(\d+)\]/.exec(p.join("."));
-    const i = m ? m[1] : (p[1] ?? "0");
-    const field = m ? p.join(".").replace(/^sweep\[\d+\]\.?/, "").split(".")[0] : p[2];
-    return `axis${i}.${field === "species" || field === "step" || field === "parameter" ? "parameter" : field === "to" ? "to" : field === "points" ? "points" : "from"}`;
+    const field = p[2];
+    return `axis${p[1] ?? "0"}.${field === "to" || field === "points" ? field : field === "from" ? "from" : "parameter"}`;
   }
-  if (p[0] === "observables") {
-    if (p[1] === "times") return "times";
-    if (p[1] === "products") return "products";
-    if (p[1] === "selectivity") return "selectivity";
-    return "reactant";
-  }
+  if (p[0] === "observables") return p[1] === "times" || p[1] === "products" || p[1] === "selectivity" ? p[1] : "reactant";
   if (p[0] === "name") return "name";
   return p[0] ?? "form";
 }
