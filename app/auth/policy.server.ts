@@ -144,6 +144,11 @@ export function can(actor: Actor | null, action: Action): boolean {
   }
 }
 
+/** True when `actor` may review proposed library steps (the review queue and its place in the navigation). */
+export function mayReviewProposals(actor: Actor | null): boolean {
+  return can(actor, { do: "step.review", object: { ownerId: -1, status: "proposed" } });
+}
+
 /** Thrown by assertCan(); routes turn it into 403 (or 401 when nobody is signed in). */
 export class Forbidden extends Error {
   constructor(
