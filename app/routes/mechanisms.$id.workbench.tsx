@@ -11,6 +11,7 @@ import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { Forbidden, can } from "~/auth/policy.server";
 import { MechanismGraph, type Positions } from "~/components/workbench/MechanismGraph";
+import { orphanSpecies } from "~/components/workbench/graph-layout";
 import { RateTable } from "~/components/workbench/RateTable";
 import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
@@ -161,6 +162,7 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   })();
   const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
   const names = useMemo(() => namesOf(L.doc), [L.doc]);
+  const orphans = useMemo(() => orphanSpecies(L.doc), [L.doc]);
   // Unsaved input in the graph's forms (new step, step panel) makes leaving the page ask first.
   const [dirty, setDirty] = useState({ add: false, panel: false });
   const addDirty = useCallback((d: boolean) => setDirty((x) => (x.add === d ? x : { ...x, add: d })), []);
@@ -261,6 +263,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
           <p className="mt-1 text-xs text-ink-500">
             Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
           </p>
+          {orphans.length > 0 && (
+            <p className="mt-1 rounded bg-amber-note px-2 py-1 text-xs text-ink-800" data-testid="orphan-species">
+              Not used by any step, so not drawn: {orphans.map((id) => names.speciesWithFormula(id)).join(", ")}. They stay in the mechanism's species (they can still be given an
+              initial concentration); remove them on the mechanism page if they are no longer wanted.
+            </p>
+          )}
           {selected && L.editable && L.entries[selected] && (
             <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} onDirty={panelDirty} />
           )}
