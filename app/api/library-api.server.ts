@@ -212,7 +212,7 @@ function safeJson(text: string): unknown {
 }
 
 export function stepReview(db: Knex, actor: Actor, request: Request, rawId: string | undefined): Promise<Response> {
-  return guard(async () => jsonResponse(await reviewAndNotify(db, actor, idParam(rawId), await body(request), request)));
+  return guard(async () => jsonResponse((await reviewAndNotify(db, actor, idParam(rawId), await body(request), request)).review));
 }
 
 export function stepCommentsList(db: Knex, actor: Actor, rawId: string | undefined): Promise<Response> {

@@ -45,11 +45,14 @@ export async function notifyReviewOutcome(db: Knex, request: Request | undefined
   }
 }
 
-/** Stores a review (approve, request changes, deprecate) and, once committed, mails the author of an approved or returned proposal. */
+/**
+ * Stores a review (approve, request changes, deprecate) and, once committed, mails the author of
+ * an approved or returned proposal; `mailed` says whether a mail went out.
+ */
 export async function reviewAndNotify(db: Knex, actor: Actor & { name?: string }, stepId: number, input: unknown, request?: Request) {
   const result = await reviewStep(db, actor, stepId, input);
   // reviewStep validated the input, so it is an object with a known action.
   const { action, comment } = input as { action: string; comment?: string };
-  if (action === "approve" || action === "request_changes") await notifyReviewOutcome(db, request, actor, stepId, action, comment);
-  return result;
+  const mailed = action === "approve" || action === "request_changes" ? await notifyReviewOutcome(db, request, actor, stepId, action, comment) : false;
+  return { review: result, mailed };
 }

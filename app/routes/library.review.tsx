@@ -35,8 +35,9 @@ export async function action({ request }: Route.ActionArgs) {
   if (!row.stepId) return data({ ...row, ok: false as const, message: "Choose a step to review.", fields: {} }, { status: 400 });
   if (intent !== "approve" && intent !== "request_changes") return data({ ...row, ok: false as const, message: "Unknown action.", fields: {} }, { status: 400 });
   try {
-    await reviewAndNotify(getDb(), user, stepId, { action: intent, comment: note.trim() || undefined }, request);
-    return { ...row, ok: true as const, message: intent === "approve" ? "Approved; the author has been told." : "Sent back to the author as a draft.", fields: {} };
+    const { mailed } = await reviewAndNotify(getDb(), user, stepId, { action: intent, comment: note.trim() || undefined }, request);
+    const told = mailed ? " The author has been e-mailed." : " No e-mail went to the author (their own review, or the mail could not be sent; see the audit log).";
+    return { ...row, ok: true as const, message: (intent === "approve" ? "Approved for the library." : "Sent back to the author as a draft.") + told, fields: {} };
   } catch (e) {
     const failure = actionFailure(e);
     return data({ ...row, ...failure.data }, failure.init ?? undefined);

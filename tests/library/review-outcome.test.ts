@@ -79,6 +79,7 @@ describe("review outcome mail", () => {
     who.user = U.curator;
     const r = unwrap(await page.action(post("/library/review", { stepId: String(id), intent: "request_changes", comment: "Give the solvent <and> the method." })));
     expect(r.ok).toBe(true);
+    expect(r.message).toBe("Sent back to the author as a draft. The author has been e-mailed.");
     expect(r.stepId).toBe(id);
     expect((await t.db("steps").where({ id }).first("status")).status).toBe("draft");
     expect(memoryOutbox.map((m) => m.subject)).toEqual(["Changes requested: Send-back mail case (test)"]);
