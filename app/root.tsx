@@ -23,7 +23,9 @@ import { requestScopeMiddleware } from "./auth/request-scope.server";
 import { AppShell } from "./components/AppShell";
 import { getOptionalUser } from "./auth/current-user.server";
 import { ensureCsrfToken } from "./auth/csrf.server";
-import { can } from "./auth/policy.server";
+import { can, mayReviewProposals } from "./auth/policy.server";
+import { getDb } from "../db/client.server";
+import { countWaitingProposals } from "../db/access/review-queue.server";
 import { mailboxEnabled } from "./mail/mailbox.server";
 
 export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, apiErrorsMiddleware, apiOriginMiddleware, apiBodyTypeMiddleware, pageFormMiddleware, requestScopeMiddleware];
@@ -34,7 +36,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await getOptionalUser(request);
   const { token: csrf, setCookie } = await ensureCsrfToken(request);
   const admin = !!user && can(user, { do: "user.manage" });
-  const shellUser = user ? { id: user.id, email: user.email, name: user.name, role: user.role, admin, mailbox: admin && mailboxEnabled() } : null;
+  // Curators (whoever may review, per the policy) see the review queue, with its size, in the navigation.
+  const reviewQueue = user && mayReviewProposals(user) ? await countWaitingProposals(getDb()) : undefined;
+  const shellUser = user ? { id: user.id, email: user.email, name: user.name, role: user.role, admin, mailbox: admin && mailboxEnabled(), reviewQueue } : null;
   return data({ user: shellUser, csrf }, setCookie ? { headers: { "Set-Cookie": setCookie } } : undefined);
 }
 

@@ -23,7 +23,6 @@ import {
   getStepVersion,
   listStepVersions,
   proposeStep,
-  reviewStep,
   searchSteps,
 } from "../../db/access/steps.server";
 import {
@@ -45,6 +44,7 @@ import { isLockConflict } from "../../db/access/transactions.server";
 import { mechanismToText } from "../../solver/exchange-format";
 import { SOURCE_TYPES, STEP_STATUSES } from "../components/library/step-schema";
 import { notifyFork, notifyProposal } from "./library-mail.server";
+import { reviewAndNotify } from "./review-mail.server";
 
 /** Maps data-layer errors to API responses; rethrows anything else. */
 export function apiFailure(e: unknown): Response {
@@ -212,7 +212,7 @@ function safeJson(text: string): unknown {
 }
 
 export function stepReview(db: Knex, actor: Actor, request: Request, rawId: string | undefined): Promise<Response> {
-  return guard(async () => jsonResponse(await reviewStep(db, actor, idParam(rawId), await body(request))));
+  return guard(async () => jsonResponse((await reviewAndNotify(db, actor, idParam(rawId), await body(request), request)).review));
 }
 
 export function stepCommentsList(db: Knex, actor: Actor, rawId: string | undefined): Promise<Response> {

@@ -41,8 +41,10 @@ export type Action =
   | { do: "mechanism.fork"; object: OwnedObject }
   | { do: "mechanism.delete"; object: OwnedObject }
   | { do: "run.create"; object: OwnedObject } // object: the mechanism
-  | { do: "run.read"; object: OwnedObject }
-  | { do: "run.cancel"; object: OwnedObject } // runs and ensembles: their owner or an admin
+  // A run is read by whoever may read it as an object of its own, and (read only) by the members
+  // of the group its mechanism is shared with.
+  | { do: "run.read"; object: OwnedObject; mechanism?: OwnedObject | null }
+  | { do: "run.cancel"; object: OwnedObject } // stop a queued or running run or ensemble: its owner, or an admin
   | { do: "dataset.create" }
   | { do: "dataset.read"; object: OwnedObject }
   | { do: "dataset.write"; object: OwnedObject }
@@ -77,13 +79,18 @@ function readsOwned(actor: Actor | null, o: OwnedObject): boolean {
   return o.visibility === "group" && o.groupId != null && actor.groupIds.includes(o.groupId);
 }
 
+function sharedWithActorsGroup(actor: Actor | null, o: OwnedObject | null | undefined): boolean {
+  return !!actor && !!o && o.visibility === "group" && o.groupId != null && actor.groupIds.includes(o.groupId);
+}
+
 /** True when `actor` (null: not signed in) may perform `action`. */
 export function can(actor: Actor | null, action: Action): boolean {
   switch (action.do) {
     case "mechanism.read":
-    case "run.read":
     case "dataset.read":
       return readsOwned(actor, action.object);
+    case "run.read":
+      return readsOwned(actor, action.object) || sharedWithActorsGroup(actor, action.mechanism);
     case "mechanism.create":
     case "dataset.create":
     case "step.create":
@@ -94,6 +101,8 @@ export function can(actor: Actor | null, action: Action): boolean {
     case "mechanism.delete":
     case "dataset.write":
       return !!actor && atLeast(actor, "author") && (action.object.ownerId === actor.id || actor.role === "admin");
+    case "run.cancel":
+      return !!actor && (action.object.ownerId === actor.id || actor.role === "admin");
     case "mechanism.fork":
       return atLeast(actor, "author") && readsOwned(actor, action.object);
     case "run.create":
@@ -135,6 +144,11 @@ export function can(actor: Actor | null, action: Action): boolean {
     case "member.setRole":
       return atLeast(actor, "admin");
   }
+}
+
+/** True when `actor` may review proposed library steps (the review queue and its place in the navigation). */
+export function mayReviewProposals(actor: Actor | null): boolean {
+  return can(actor, { do: "step.review", object: { ownerId: -1, status: "proposed" } });
 }
 
 /** Thrown by assertCan(); routes turn it into 403 (or 401 when nobody is signed in). */

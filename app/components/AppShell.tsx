@@ -1,5 +1,9 @@
-/** The frame around every page: brand, main navigation, account menu. */
-import type { ReactNode } from "react";
+/**
+ * The frame around every page: brand, main navigation, account menu. Under 768 px (Tailwind's
+ * `md`) the navigation folds behind a menu button (aria-expanded; Escape closes it and returns
+ * focus to the button; a new page closes it).
+ */
+import { useEffect, useId, useRef, useState, type ReactNode } from "react";
 import { Form, Link, NavLink, useLocation } from "react-router";
 import { Wordmark } from "./Logo";
 
@@ -12,6 +16,8 @@ export interface ShellUser {
   admin?: boolean;
   /** Show the development mailbox link (only when the local mail catcher runs). */
   mailbox?: boolean;
+  /** Proposals waiting for review, for users the policy lets review (undefined for others: no link). */
+  reviewQueue?: number;
 }
 
 const NAV = [
@@ -32,6 +38,10 @@ function navClass({ isActive }: { isActive: boolean }) {
 export function AppShell({ user, csrf, children }: { user: ShellUser | null; csrf?: string; children: ReactNode }) {
   // The account menu closes when the page changes (a new key remounts the <details>).
   const { pathname } = useLocation();
+  const [navOpen, setNavOpen] = useState(false);
+  const menuButton = useRef<HTMLButtonElement>(null);
+  const navId = useId();
+  useEffect(() => setNavOpen(false), [pathname]);
   return (
     <div className="flex min-h-screen flex-col">
       <header className="bg-ink-900 text-white">
@@ -39,12 +49,40 @@ export function AppShell({ user, csrf, children }: { user: ShellUser | null; csr
           <Link to="/" aria-label="Saddlebook home">
             <Wordmark />
           </Link>
-          <nav aria-label="Main" className="flex flex-wrap items-center gap-1">
+          <button
+            ref={menuButton}
+            type="button"
+            className="rounded-md px-3 py-1.5 text-sm font-medium text-ink-100 hover:bg-ink-800 md:hidden"
+            aria-expanded={navOpen}
+            aria-controls={navId}
+            onClick={() => setNavOpen((o) => !o)}
+          >
+            <span aria-hidden="true">☰</span> Menu
+          </button>
+          <nav
+            id={navId}
+            aria-label="Main"
+            className={`${navOpen ? "flex" : "hidden"} order-last w-full flex-col items-stretch gap-1 md:order-none md:flex md:w-auto md:flex-row md:flex-wrap md:items-center`}
+            onKeyDown={(e) => {
+              if (e.key === "Escape" && navOpen) {
+                setNavOpen(false);
+                menuButton.current?.focus();
+              }
+            }}
+          >
             {NAV.map((n) => (
               <NavLink key={n.to} to={n.to} className={navClass}>
                 {n.label}
               </NavLink>
             ))}
+            {user?.reviewQueue !== undefined && (
+              <NavLink to="/library/review" end className={navClass} aria-label={`Review queue, ${user.reviewQueue} waiting`}>
+                Review queue{" "}
+                <span className="ml-1 rounded-full bg-copper-700 px-1.5 text-xs text-white" data-testid="review-count">
+                  {user.reviewQueue}
+                </span>
+              </NavLink>
+            )}
           </nav>
           <div className="ml-auto">
             {user ? (

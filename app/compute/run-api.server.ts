@@ -17,7 +17,7 @@ import { readQuery } from "~/api/query.server";
 import { can, type Actor } from "~/auth/policy.server";
 import { MechanismDocumentSchema, documentToEngine, validateMechanismDocument, type MechanismDocument } from "../../solver/exchange-format";
 import { compileMechanism } from "../../solver/index";
-import { createRun, getRun, getRunSeries, listRuns, requestCancel, runAsOwned, type RunRecord, type RunSeries } from "../../db/access/runs.server";
+import { createRun, getRun, getRunSeries, listRuns, requestCancel, runAsOwned, runReadAction, type RunRecord, type RunSeries } from "../../db/access/runs.server";
 import { AnalysisRequestSchema, ConditionsSchema, RUN_MAX_VALUES, SolverSettingsSchema, resolveSolver, toEngineConditions } from "./run-request";
 import { getComputeService } from "./pool.server";
 import { nameKeyOf, namer, type NameKey, type NamedDocument } from "~/components/names";
@@ -165,7 +165,7 @@ export async function readableRun(db: Knex, actor: Actor | null, idParam: string
   const id = Number(idParam);
   if (!Number.isInteger(id) || id <= 0) return { ok: false, response: apiError(404, "not_found", "There is no run with this id.") };
   const run = await getRun(db, id);
-  if (!run || !can(actor, { do: "run.read", object: runAsOwned(run) })) return { ok: false, response: apiError(404, "not_found", `There is no run ${id} that you can see.`) };
+  if (!run || !can(actor, runReadAction(run))) return { ok: false, response: apiError(404, "not_found", `There is no run ${id} that you can see.`) };
   return { ok: true, run };
 }
 

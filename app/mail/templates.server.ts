@@ -86,3 +86,23 @@ export function invitationMail(to: string, inviter: string, groupName: string, u
     after: [`The invitation works once and expires in ${hours(lifetimeHours)}.`, "If you were not expecting it, ignore this message."],
   });
 }
+
+export type ReviewOutcome = "approve" | "request_changes";
+
+/** To the author of a proposed step: a curator approved it or sent it back, with their note. */
+export function reviewOutcomeMail(to: string, name: string, r: { stepLabel: string; outcome: ReviewOutcome; reviewer: string; note?: string | null; url: string }): OutgoingMail {
+  const approved = r.outcome === "approve";
+  return render({
+    to,
+    subject: approved ? `Approved for the library: ${r.stepLabel}` : `Changes requested: ${r.stepLabel}`,
+    greeting: `Hello ${name},`,
+    paragraphs: [
+      approved
+        ? `${r.reviewer} approved your proposed step "${r.stepLabel}". It is now part of the shared library.`
+        : `${r.reviewer} sent your proposed step "${r.stepLabel}" back with a request for changes. It is a draft again: edit it and propose it once more.`,
+      ...(r.note ? [`Note from ${r.reviewer}: ${r.note}`] : []),
+    ],
+    action: { label: "Open the step", url: r.url },
+    after: ["You receive this because you proposed the step for the shared library."],
+  });
+}

@@ -11,6 +11,7 @@ import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { Forbidden, can } from "~/auth/policy.server";
 import { MechanismGraph, type Positions } from "~/components/workbench/MechanismGraph";
+import { orphanSpecies } from "~/components/workbench/graph-layout";
 import { RateTable } from "~/components/workbench/RateTable";
 import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
@@ -21,7 +22,7 @@ import { describeBarrier } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
-import { loadMechanismDocument } from "~/compute/mechanism-source.server";
+import { emptyMechanismDocument, loadMechanismDocument } from "~/compute/mechanism-source.server";
 import { RunCreateSchema, cancelRun, readableRun, startRun } from "~/compute/run-api.server";
 import { PositionsSchema, PresetSchema, layoutPositions, presetsOf, saveLayout, savePreset } from "~/compute/workbench-state.server";
 import { getDb } from "../../db/client.server";
@@ -52,7 +53,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!Number.isInteger(id) || id <= 0) throw new Response("Not found", { status: 404 });
   const row = await mechanismRow(user, id);
   const v = Number(new URL(request.url).searchParams.get("version") ?? "") || undefined;
-  const loaded = await loadMechanismDocument(getDb(), user, id, v);
+  // A mechanism with no steps yet has no exchange-format document (it needs a step): the page
+  // opens on an empty state that says to add one.
+  const loaded = (await emptyMechanismDocument(getDb(), row, v)) ?? (await loadMechanismDocument(getDb(), user, id, v));
   if (!loaded.ok) throw new Response(loaded.message, { status: loaded.status });
   const runs = await listRuns(getDb(), user, { mechanismId: id, limit: 20 });
   const ensembles = await listEnsembles(getDb(), user, { mechanismId: id, limit: 20 });
@@ -152,7 +155,38 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 type RunState = { id: number; status: string; progress: number; tEnd: number; reason: string | null; analysis?: { species: Record<string, { t50?: number | null; initial: number }> } };
 
-export default function Workbench({ loaderData }: Route.ComponentProps) {
+export default function Workbench(props: Route.ComponentProps) {
+  // Separate components, so adding the first step mounts the full workbench afresh.
+  return props.loaderData.doc.steps.length === 0 ? <EmptyWorkbench {...props} /> : <WorkbenchWithSteps {...props} />;
+}
+
+function EmptyWorkbench({ loaderData: L }: Route.ComponentProps) {
+  const [dirty, setDirty] = useState(false);
+  const leave = useLeaveGuard(dirty);
+  return (
+    <div className="space-y-4">
+      {leave.dialog}
+      <header className="flex flex-wrap items-center gap-3">
+        <h1 className="text-2xl font-semibold tracking-tight">
+          {L.name} <span className="text-base font-normal text-ink-500">version {L.version}</span>
+        </h1>
+        <Link to={`/mechanisms/${L.id}`} className="btn-quiet ml-auto">
+          Mechanism page
+        </Link>
+      </header>
+      <section className="panel space-y-3" data-testid="workbench-empty">
+        <h2 className="font-semibold">No steps yet</h2>
+        <p className="text-sm text-ink-700">
+          This mechanism has no elementary steps, so there is nothing to draw, compute or simulate yet. Add a step to start
+          {L.editable ? ": from the shared library, or a local step of your own." : "; only the owner can add steps (fork it to make your own copy)."}
+        </p>
+        {L.editable && <AddStepControl doc={L.doc} allSpecies={L.allSpecies} baseVersion={L.version} T={298.15} onDirty={setDirty} />}
+      </section>
+    </div>
+  );
+}
+
+function WorkbenchWithSteps({ loaderData }: Route.ComponentProps) {
   const L = loaderData;
   const [Tvalue, setTvalue] = useState("25");
   const [Tunit, setTunit] = useState<"K" | "°C">("°C");
@@ -164,11 +198,16 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   })();
   const numbers = useMemo(() => (T ? stepNumbers(L.doc, T) : []), [L.doc, T]);
   const names = useMemo(() => namesOf(L.doc), [L.doc]);
+  const orphans = useMemo(() => orphanSpecies(L.doc), [L.doc]);
   // Unsaved input in the graph's forms (new step, step panel) makes leaving the page ask first.
   const [dirty, setDirty] = useState({ add: false, panel: false });
   const addDirty = useCallback((d: boolean) => setDirty((x) => (x.add === d ? x : { ...x, add: d })), []);
   const panelDirty = useCallback((d: boolean) => setDirty((x) => (x.panel === d ? x : { ...x, panel: d })), []);
-  const leave = useLeaveGuard(dirty.add || dirty.panel);
+  const [draft, setDraft] = useState<ConditionsDraft>(() => defaultDraft(L.doc.species.map((s) => s.id)));
+  // The conditions form counts as unsaved once it differs from what was last run or saved as a preset.
+  const [settledDraft, setSettledDraft] = useState<string>(() => JSON.stringify(defaultDraft(L.doc.species.map((s) => s.id))));
+  const conditionsDirty = JSON.stringify(draft) !== settledDraft;
+  const leave = useLeaveGuard(dirty.add || dirty.panel || conditionsDirty);
   const [selected, setSelected] = useState<string | null>(null);
   const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
@@ -179,7 +218,6 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   const cancelFetcher = useFetcher();
   const revalidator = useRevalidator();
   const saved = useMemo(() => L.positions as Positions, [L.positions]);
-  const [draft, setDraft] = useState<ConditionsDraft>(() => defaultDraft(L.doc.species.map((s) => s.id)));
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [presetName, setPresetName] = useState("");
   const [run, setRun] = useState<RunState | null>(null);
@@ -222,6 +260,7 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
     if (!built.ok) return setErrors(built.errors);
     setErrors({});
     setRun(null);
+    setSettledDraft(JSON.stringify(draft));
     runFetcher.submit({ intent: "run", version: String(L.version), request: JSON.stringify({ conditions: built.conditions, solver: built.solver }), csrf: csrfToken }, { method: "post" });
   }
 
@@ -264,6 +303,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
           <p className="mt-1 text-xs text-ink-500">
             Step nodes show ΔG‡ (1 mol/L) and k at the temperature above. {L.canWrite ? "Drag nodes to arrange; positions are saved with the mechanism." : "Only the owner's arrangement is saved."}
           </p>
+          {orphans.length > 0 && (
+            <p className="mt-1 rounded bg-amber-note px-2 py-1 text-xs text-ink-800" data-testid="orphan-species">
+              Not used by any step, so not drawn: {orphans.map((id) => names.speciesWithFormula(id)).join(", ")}. They stay in the mechanism's species (they can still be given an
+              initial concentration); remove them on the mechanism page if they are no longer wanted.
+            </p>
+          )}
           {selected && L.editable && L.entries[selected] && (
             <StepEditPanel key={`${selected}@${L.version}`} id={selected} doc={L.doc} entry={L.entries[selected]} T={T} baseVersion={L.version} onClose={() => setSelected(null)} onDirty={panelDirty} />
           )}
@@ -284,7 +329,10 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
                   type="button"
                   className="btn-quiet"
                   disabled={!presetName.trim()}
-                  onClick={() => presetFetcher.submit({ intent: "preset", name: presetName, draft: JSON.stringify(draft), csrf: csrfToken }, { method: "post" })}
+                  onClick={() => {
+                    setSettledDraft(JSON.stringify(draft));
+                    presetFetcher.submit({ intent: "preset", name: presetName, draft: JSON.stringify(draft), csrf: csrfToken }, { method: "post" });
+                  }}
                 >
                   Save as preset
                 </button>

@@ -20,7 +20,7 @@ import { cancelRun, readableRun, runNameKey } from "~/compute/run-api.server";
 import { namer } from "~/components/names";
 import { StepName } from "~/components/StepName";
 import { getDb } from "../../db/client.server";
-import { createRun, getRunSeries } from "../../db/access/runs.server";
+import { createRun, getRunSeries, runAsOwned } from "../../db/access/runs.server";
 import { datasetOverlay, type OverlaySeries } from "~/compute/dataset-overlay.server";
 import { listDatasets } from "../../db/access/datasets.server";
 import { StatusBadge } from "~/components/workbench/StatusBadge";
@@ -49,7 +49,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       id: run.id,
       name: run.name,
       owner: run.ownerName ?? "",
-      canCancel: run.ownerId === user.id || user.role === "admin",
+      canCancel: can(user, { do: "run.cancel", object: runAsOwned(run) }),
       canRerun: can(user, { do: "run.create", object: { ownerId: user.id, visibility: "private" } }),
       status: run.status,
       failureCode: run.failureCode,

@@ -1,14 +1,15 @@
 /** A library step: reaction, every barrier form, k(T) over the validity range (table and plot), provenance, history, review, comments, where used. */
-import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
+import { Form, Link, data, redirect, useActionData, useNavigation } from "react-router";
 import type { Route } from "./+types/steps.$id";
 import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { CsrfInput } from "~/components/CsrfInput";
 import { getDb } from "../../db/client.server";
-import { addStepComment, getStep, getStepVersion, proposeStep, restoreStepVersion, reviewStep, reactionText } from "../../db/access/steps.server";
+import { addStepComment, getStep, getStepVersion, proposeStep, restoreStepVersion, reactionText } from "../../db/access/steps.server";
 import { flatten } from "../../db/access/mechanism-diff";
 import { actionFailure, loaderFailure, routeId } from "~/components/library/route-helpers.server";
 import { notifyProposal } from "~/api/library-mail.server";
+import { reviewAndNotify } from "~/api/review-mail.server";
 import { convertBarrier, rateConstant } from "../../solver/rates";
 import { balanceOf } from "~/components/library/balance";
 import { speciesIdOfKey, type StepStatus } from "~/components/library/step-schema";
@@ -132,15 +133,23 @@ export async function action({ request, params }: Route.ActionArgs) {
       await notifyProposal(db, id).catch(() => {});
     } else if (intent === "approve" || intent === "request_changes" || intent === "deprecate") {
       const rep = String(form.get("replacementStepId") ?? "").trim();
-      await reviewStep(db, user, id, {
-        action: intent,
-        comment: String(form.get("comment") ?? "") || undefined,
-        ...(intent === "deprecate" && rep ? { replacementStepId: Number(rep) } : {}),
-      });
+      await reviewAndNotify(
+        db,
+        user,
+        id,
+        {
+          action: intent,
+          comment: String(form.get("comment") ?? "") || undefined,
+          ...(intent === "deprecate" && rep ? { replacementStepId: Number(rep) } : {}),
+        },
+        request,
+      );
     } else return { ok: false as const, message: "Unknown action.", fields: {} };
-    return { ok: true as const, message: intent === "comment" ? "Comment added." : "Done.", fields: {} };
+    return { ok: true as const, intent, message: intent === "comment" ? "Comment added." : "Done.", fields: {} };
   } catch (e) {
-    return actionFailure(e);
+    // The intent goes back with the error, so the page shows it beside the button that caused it.
+    const failure = actionFailure(e);
+    return data({ ...failure.data, intent }, failure.init ?? undefined);
   }
 }
 
@@ -171,9 +180,12 @@ function KPlot({ points }: { points: Array<{ T: number; k: number | null }> }) {
   );
 }
 
+const REVIEW_INTENTS: string[] = ["approve", "request_changes", "deprecate"];
+
 export default function StepPage({ loaderData: d }: Route.ComponentProps) {
   const result = useActionData<typeof action>();
   const busy = useNavigation().state === "submitting";
+  const reviewError = result && !result.ok && "intent" in result && REVIEW_INTENTS.includes(String(result.intent)) ? [result.message, ...Object.values(result.fields ?? {})].join(" ") : null;
   const { eu, su, tu } = d.units;
   const b = d.content.barrier;
   return (
@@ -209,7 +221,7 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
           {d.balance.message}
         </p>
       </div>
-      {result && (
+      {result && !reviewError && (
         <p className={`text-sm ${result.ok ? "text-moss-700" : "text-brick-700"}`} role="status">
           {result.message}
         </p>
@@ -431,6 +443,11 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                   </>
                 )}
               </div>
+              {reviewError && (
+                <p className="text-brick-700 md:col-span-3" role="alert" data-testid="review-error">
+                  {reviewError}
+                </p>
+              )}
             </Form>
           )}
         </section>

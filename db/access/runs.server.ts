@@ -22,6 +22,8 @@ export interface RunRecord {
   groupId: number | null;
   mechanismId: number | null;
   mechanismVersion: number | null;
+  /** The run's mechanism as the policy sees it (its group share opens the run to the group); null without one. */
+  mechanismAccess: OwnedObject | null;
   snapshotHash: string;
   snapshot: unknown;
   conditions: Conditions;
@@ -64,6 +66,7 @@ const LIST_COLUMNS = [
   "r.id", "r.owner_id", "r.name", "r.visibility", "r.group_id", "r.mechanism_id", "r.mechanism_version", "r.snapshot_hash",
   "r.conditions", "r.solver_options", "r.analysis_request", "r.status", "r.failure_code", "r.status_reason", "r.t_end", "r.progress_time",
   "r.cancel_requested_at", "r.result_species", "r.result_points", "r.statistics", "r.warnings", "r.created_at", "r.started_at", "r.finished_at",
+  "m.owner_id as mechanism_owner_id", "m.visibility as mechanism_visibility", "m.group_id as mechanism_group_id",
 ];
 
 function toRecord(row: Record<string, any>): RunRecord {
@@ -76,6 +79,7 @@ function toRecord(row: Record<string, any>): RunRecord {
     groupId: row.group_id,
     mechanismId: row.mechanism_id,
     mechanismVersion: row.mechanism_version,
+    mechanismAccess: row.mechanism_owner_id == null ? null : { ownerId: row.mechanism_owner_id, visibility: row.mechanism_visibility, groupId: row.mechanism_group_id },
     snapshotHash: row.snapshot_hash,
     snapshot: row.snapshot === undefined ? undefined : json(row.snapshot),
     conditions: json(row.conditions),
@@ -145,6 +149,7 @@ export async function createRun(db: Knex, r: NewRun): Promise<number> {
 export async function getRun(db: Knex, id: number): Promise<RunRecord | null> {
   const row = await db("runs as r")
     .leftJoin("users as u", "u.id", "r.owner_id")
+    .leftJoin("mechanisms as m", "m.id", "r.mechanism_id")
     .select([...LIST_COLUMNS, "r.snapshot", "r.analysis", "u.name as owner_name"])
     .where("r.id", id)
     .first();
@@ -160,15 +165,18 @@ export async function getRunSeries(db: Knex, id: number): Promise<RunSeries | nu
   return { speciesIds: species, ...data };
 }
 
-/** Runs the actor may read, newest first. */
+/** Runs the actor may read (policy "run.read": their own, shared with them, or of a mechanism shared with their group), newest first. */
 export async function listRuns(db: Knex, actor: Actor | null, opts: { mechanismId?: number; limit?: number; mine?: boolean } = {}): Promise<RunRecord[]> {
-  const q = db("runs as r").leftJoin("users as u", "u.id", "r.owner_id").select([...LIST_COLUMNS, "u.name as owner_name"]);
+  const q = db("runs as r").leftJoin("users as u", "u.id", "r.owner_id").leftJoin("mechanisms as m", "m.id", "r.mechanism_id").select([...LIST_COLUMNS, "u.name as owner_name"]);
   q.where((w) => {
     w.where("r.visibility", "public");
     if (actor) {
       w.orWhere("r.owner_id", actor.id);
       if (actor.role === "admin") w.orWhereRaw("1 = 1");
-      if (actor.groupIds.length) w.orWhere((g) => g.where("r.visibility", "group").whereIn("r.group_id", actor.groupIds));
+      if (actor.groupIds.length) {
+        w.orWhere((g) => g.where("r.visibility", "group").whereIn("r.group_id", actor.groupIds));
+        w.orWhere((g) => g.where("m.visibility", "group").whereIn("m.group_id", actor.groupIds));
+      }
     }
   });
   if (opts.mine && actor) q.andWhere("r.owner_id", actor.id);
@@ -275,4 +283,9 @@ export async function failInterruptedRuns(db: Knex, olderThan: Date): Promise<nu
 
 export function runAsOwned(r: Pick<RunRecord, "ownerId" | "visibility" | "groupId">): OwnedObject {
   return { ownerId: r.ownerId, visibility: r.visibility, groupId: r.groupId };
+}
+
+/** The policy question "may this actor read this run?" for a stored run. */
+export function runReadAction(r: Pick<RunRecord, "ownerId" | "visibility" | "groupId" | "mechanismAccess">): { do: "run.read"; object: OwnedObject; mechanism: OwnedObject | null } {
+  return { do: "run.read", object: runAsOwned(r), mechanism: r.mechanismAccess };
 }

@@ -12,7 +12,7 @@
  */
 import type { Knex } from "knex";
 import type { Actor } from "../../app/auth/policy.server";
-import type { MechanismEntryInput, StepInput } from "../../app/components/library/step-schema";
+import { speciesKey, type MechanismEntryInput, type StepInput } from "../../app/components/library/step-schema";
 import { createSpecies } from "../access/species.server";
 import { createStep, editStep, proposeStep, reviewStep, addStepComment } from "../access/steps.server";
 import { createMechanism, forkMechanism, updateMechanism, getMechanism } from "../access/mechanisms.server";
@@ -263,7 +263,23 @@ export async function seedDemoLibrary(db: Knex): Promise<void> {
       description: "Invented demo: Cat-7 catalysed acetylation of benzyl alcohol with its background, hydrolysis and catalyst sequestration.",
       visibility: "group",
       steps: [await lib("ip-form"), await lib("cat-BnOH"), await lib("bg-BnOH"), await lib("ip-hydrolysis"), await lib("ac2o-hydrolysis"), await lib("cat-salt")],
-      conditionPresets: [{ name: "bench, 25 °C", T: 298.15, initial: { Ac2O: 1.2, BnOH: 1.0, Cat: 0.05, H2O: 0.01 } }],
+      // In the workbench's preset format ({name, draft}: the conditions form's fields as typed,
+      // initial concentrations by the mechanism's species keys s<id>).
+      conditionPresets: [
+        {
+          name: "bench, 25 °C",
+          draft: {
+            mode: "isothermal",
+            T: "25",
+            TUnit: "°C",
+            initial: Object.fromEntries(
+              ([["Ac2O", "1.2"], ["BnOH", "1.0"], ["Cat", "0.05"], ["H2O", "0.01"]] as const).map(([k, v]) => [speciesKey(sp.get(k)!), { value: v, unit: "mol/L" }]),
+            ),
+            endTime: "2",
+            endUnit: "h",
+          },
+        },
+      ],
       message: "First assembly of the illustrative cycle.",
     },
     { illustrative: true },

@@ -59,6 +59,18 @@ describe("owned objects: read", () => {
   }
 });
 
+describe("runs: read through the mechanism's group share", () => {
+  // A private run of someone else: readable by the members of the group its mechanism is shared
+  // with (and by admins), by nobody else; a public or other group's mechanism does not open it.
+  const run = () => others("private");
+  expectRow("run.read, mechanism shared with my group", "01111", () => ({ do: "run.read", object: run(), mechanism: others("group", GROUP) }));
+  expectRow("run.read, mechanism shared with another group", "00001", () => ({ do: "run.read", object: run(), mechanism: others("group", OTHER_GROUP) }));
+  expectRow("run.read, mechanism public", "00001", () => ({ do: "run.read", object: run(), mechanism: others("public") }));
+  expectRow("run.cancel, own run", "01111", (a) => ({ do: "run.cancel", object: own(a, "private") }));
+  expectRow("run.cancel, someone's run shared with my group", "00001", () => ({ do: "run.cancel", object: others("group", GROUP) }));
+  expectRow("run.read, mechanism private", "00001", () => ({ do: "run.read", object: run(), mechanism: others("private") }));
+});
+
 describe("owned objects: write and delete (owner with author role, or admin)", () => {
   for (const doIt of ["mechanism.write", "mechanism.delete", "dataset.write"] as const) {
     CASES.forEach(([label, obj], i) => expectRow(`${doIt} ${label}`, WRITE[i], (a) => ({ do: doIt, object: obj(a) })));

@@ -11,11 +11,11 @@
 import { apiError } from "../../app/api/errors.server";
 import type { SessionUser } from "../../app/auth/current-user.server";
 
-export const apiCaller = { userId: 1, email: "kinetics@example.test", name: "Test user", role: "author" as SessionUser["role"] };
+export const apiCaller = { userId: 1, email: "kinetics@example.test", name: "Test user", role: "author" as SessionUser["role"], groupIds: [] as number[] };
 
 function caller(): SessionUser | null {
   if (!apiCaller.userId) return null;
-  return { id: apiCaller.userId, email: apiCaller.email, name: apiCaller.name, role: apiCaller.role, groupIds: [], adminGroupIds: [] };
+  return { id: apiCaller.userId, email: apiCaller.email, name: apiCaller.name, role: apiCaller.role, groupIds: apiCaller.groupIds, adminGroupIds: [] };
 }
 
 export function bearerToken(): string | null {

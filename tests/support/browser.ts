@@ -39,6 +39,16 @@ export async function ownMechanismIds(b: BrowserSession): Promise<number[]> {
   return list.items.filter((m) => m.owner_id === me.id).map((m) => m.id);
 }
 
+/** An API request with the signed-in session of `b` (same-origin, JSON), and its status and JSON body. */
+export async function apiRequest(b: BrowserSession, method: "GET" | "POST", path: string, body?: unknown): Promise<{ status: number; json: any }> {
+  const res = await b.page.request.fetch(appUrl() + "/api/v1" + path, {
+    method,
+    headers: { Origin: new URL(appUrl()).origin, "Content-Type": "application/json" },
+    ...(body === undefined ? {} : { data: JSON.stringify(body) }),
+  });
+  return { status: res.status(), json: await res.json() };
+}
+
 export interface BrowserSession {
   context: BrowserContext;
   page: Page;

@@ -2,29 +2,36 @@
  * The mechanism as a graph (@xyflow/react): species nodes, and each elementary step as a node of
  * its own between its reactants and products; edges carry stoichiometric coefficients other than 1;
  * reversible steps are marked ⇌ and their edges arrowed both ways; each step node shows its
- * barrier (ΔG‡ at T, 1 mol/L) and k at T. A new mechanism is laid out with dagre (left to
- * right); dragged positions are reported for saving with the mechanism's layout.
+ * barrier (ΔG‡ at T, 1 mol/L) and k at T. Layout in ./graph-layout.ts: catalytic cycles on
+ * rings, the rest by dagre (left to right), no overlapping boxes, species no step uses left out
+ * (listed under the graph by the workbench); each node is drawn at exactly its layout box.
+ * The first view fits the graph but never below a zoom at which the 12 px node text would be
+ * smaller than 11 px on screen (a large graph then opens partly in view, to be panned).
+ * Dragged positions are reported for saving with the mechanism's layout.
  * Only visible elements are rendered and nodes are memoised, so 200-step mechanisms stay fluid.
  */
 import { memo, useCallback, useEffect, useMemo, useState } from "react";
 import { Background, Controls, Handle, MarkerType, Position, ReactFlow, type Edge, type Node, type NodeProps, type NodeChange, applyNodeChanges } from "@xyflow/react";
 import "@xyflow/react/dist/style.css";
-import dagre from "@dagrejs/dagre";
+import { GRAPH_FONT_PX, layoutGraph, type Positions } from "./graph-layout";
 import type { MechanismDocument } from "../../../solver/exchange-format";
 import type { StepNumbers } from "./step-rates";
 import { num } from "./format";
 import { namesOf } from "../names";
 
-export type Positions = Record<string, { x: number; y: number }>;
+export type { Positions };
+
+/** Smallest on-screen text size at the first view, px. */
+export const MIN_TEXT_PX = 11;
 
 type SpeciesData = { label: string; formula?: string };
 type StepData = { label: string; reversible: boolean; dG: number | null; k: number | null; kUnit: string; selected: boolean };
 
 const SpeciesNode = memo(function SpeciesNode({ data }: NodeProps<Node<SpeciesData>>) {
   return (
-    <div className="rounded-full border border-ink-400 bg-white px-3 py-1.5 text-xs font-semibold text-ink-900 shadow-xs" title={data.formula}>
+    <div className="flex h-full w-full items-center justify-center rounded-full border border-ink-400 bg-white px-3 text-xs font-semibold text-ink-900 shadow-xs" title={data.formula ? `${data.label} (${data.formula})` : data.label} data-testid="species-node">
       <Handle type="target" position={Position.Left} className="!bg-ink-400" />
-      {data.label}
+      <span className="truncate">{data.label}</span>
       <Handle type="source" position={Position.Right} className="!bg-ink-400" />
     </div>
   );
@@ -32,9 +39,9 @@ const SpeciesNode = memo(function SpeciesNode({ data }: NodeProps<Node<SpeciesDa
 
 const StepNode = memo(function StepNode({ data }: NodeProps<Node<StepData>>) {
   return (
-    <div className={`rounded-md border px-2 py-1 text-[11px] leading-tight shadow-xs ${data.selected ? "border-copper-600 bg-copper-50" : "border-ink-300 bg-ink-50"}`} data-testid="step-node">
+    <div className={`h-full w-full overflow-hidden rounded-md border px-2 py-1 text-xs leading-4 shadow-xs ${data.selected ? "border-copper-600 bg-copper-50" : "border-ink-300 bg-ink-50"}`} data-testid="step-node" title={data.label}>
       <Handle type="target" position={Position.Left} className="!bg-copper-500" />
-      <div className="font-semibold text-ink-800">
+      <div className="line-clamp-2 font-semibold text-ink-800">
         {data.reversible ? "⇌ " : "→ "}
         {data.label}
       </div>
@@ -48,26 +55,6 @@ const StepNode = memo(function StepNode({ data }: NodeProps<Node<StepData>>) {
 });
 
 const nodeTypes = { species: SpeciesNode, step: StepNode };
-
-/** dagre positions (left to right) for every node id without a saved position. */
-export function autoLayout(doc: MechanismDocument, saved: Positions): Positions {
-  const g = new dagre.graphlib.Graph();
-  g.setGraph({ rankdir: "LR", nodesep: 24, ranksep: 70, marginx: 10, marginy: 10 });
-  g.setDefaultEdgeLabel(() => ({}));
-  for (const s of doc.species) g.setNode(`s:${s.id}`, { width: 90, height: 32 });
-  for (const st of doc.steps) {
-    g.setNode(`r:${st.id}`, { width: 150, height: 52 });
-    for (const t of st.reactants) g.setEdge(`s:${t.species}`, `r:${st.id}`);
-    for (const t of st.products) g.setEdge(`r:${st.id}`, `s:${t.species}`);
-  }
-  dagre.layout(g);
-  const out: Positions = {};
-  for (const id of g.nodes()) {
-    const n = g.node(id);
-    out[id] = saved[id] ?? { x: n.x - n.width / 2, y: n.y - n.height / 2 };
-  }
-  return out;
-}
 
 export function MechanismGraph({
   doc,
@@ -90,23 +77,29 @@ export function MechanismGraph({
   useEffect(() => setMounted(true), []);
   const byId = useMemo(() => new Map(numbers.map((n) => [n.id, n])), [numbers]);
   const names = useMemo(() => namesOf(doc), [doc]);
-  const initial = useMemo(() => autoLayout(doc, saved), [doc, saved]);
+  const layout = useMemo(() => layoutGraph(doc, names, saved), [doc, names, saved]);
+  const initial = useMemo(() => Object.fromEntries(layout.nodes.map((n) => [n.id, { x: n.x, y: n.y }])) as Positions, [layout]);
+  const sizes = useMemo(() => new Map(layout.nodes.map((n) => [n.id, { width: n.width, height: n.height }])), [layout]);
   const [positions, setPositions] = useState<Positions>(initial);
   useEffect(() => setPositions(initial), [initial]);
 
   const nodes = useMemo<Node[]>(() => {
-    const out: Node[] = doc.species.map((s) => ({ id: `s:${s.id}`, type: "species", position: positions[`s:${s.id}`] ?? { x: 0, y: 0 }, data: { label: s.label || s.id, formula: s.formula } }));
+    const orphans = new Set(layout.orphans);
+    const out: Node[] = doc.species
+      .filter((s) => !orphans.has(s.id))
+      .map((s) => ({ id: `s:${s.id}`, type: "species", position: positions[`s:${s.id}`] ?? { x: 0, y: 0 }, style: sizes.get(`s:${s.id}`), data: { label: names.species(s.id), formula: s.formula } }));
     for (const st of doc.steps) {
       const n = byId.get(st.id);
       out.push({
         id: `r:${st.id}`,
         type: "step",
         position: positions[`r:${st.id}`] ?? { x: 0, y: 0 },
+        style: sizes.get(`r:${st.id}`),
         data: { label: names.step(st.id), reversible: st.reversible, dG: n?.dG ?? null, k: n?.kf ?? null, kUnit: n?.kfUnit ?? "", selected: selected === st.id },
       });
     }
     return out;
-  }, [doc, byId, positions, selected, names]);
+  }, [doc, byId, positions, selected, names, layout, sizes]);
 
   const edges = useMemo<Edge[]>(() => {
     const out: Edge[] = [];
@@ -149,6 +142,7 @@ export function MechanismGraph({
         onPaneClick={() => onSelect(null)}
         onlyRenderVisibleElements
         fitView
+        fitViewOptions={{ minZoom: MIN_TEXT_PX / GRAPH_FONT_PX, maxZoom: 1.5 }}
         minZoom={0.1}
         proOptions={{ hideAttribution: true }}
       >
