@@ -99,3 +99,4 @@ export {
 } from "./analysis.ts";
 export { arrheniusRegression, eyringRegression, type ArrheniusResult, type EyringResult, type RatePoint } from "./regression.ts";
 export { fitBarriers, shiftBarrier, type FitExperiment, type FitOptions, type FitParameter, type FitResult, type Observation } from "./fit.ts";
+export { energeticSpan, type EnergeticSpan, type EnergeticSpanInput } from "./energetic-span.ts";
