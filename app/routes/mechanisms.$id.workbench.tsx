@@ -16,6 +16,8 @@ import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
 import { CautionNote } from "~/components/workbench/CautionNote";
 import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rates";
+import { cycleSummary, defaultCycle } from "~/components/workbench/cycle-summary";
+import { CyclePanel } from "~/components/workbench/CyclePanel";
 import { namesOf, type Names } from "~/components/names";
 import { describeBarrier } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
@@ -167,8 +169,11 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
   const panelDirty = useCallback((d: boolean) => setDirty((x) => (x.panel === d ? x : { ...x, panel: d })), []);
   const leave = useLeaveGuard(dirty.add || dirty.panel);
   const [selected, setSelected] = useState<string | null>(null);
-  const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
+  // The pathway starts as the mechanism's catalytic cycle when it has one, else its first steps.
+  const [pathway, setPathway] = useState<string[]>(() => defaultCycle(L.doc) ?? L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
+  const cycle = useMemo(() => (T && pathway.length ? cycleSummary(L.doc, numbers, pathway, T) : null), [L.doc, numbers, pathway, T]);
+  const unknownLevels = [...new Set(profile.flatMap((p) => (p.unknown ? [p.unknown] : [])))];
   const profileRef = useRef<SVGSVGElement>(null);
   const layoutFetcher = useFetcher();
   const presetFetcher = useFetcher();
@@ -338,7 +343,10 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
 
       <section className="panel space-y-2">
         <h2 className="font-semibold">Free-energy profile</h2>
-        <p className="text-xs text-ink-500">Tick the steps of a pathway in order (each taken forward). Intermediates need the step's reaction free energy.</p>
+        <p className="text-xs text-ink-500">
+          Tick the steps of a pathway in order (each taken forward); a mechanism's catalytic cycle is ticked to begin with. Levels are the species present, in kJ/mol relative
+          to the first, at the temperature above in the 1 mol/L standard state; intermediates need the step's reaction free energy (ΔG°rxn).
+        </p>
         <div className="flex flex-wrap gap-2 text-sm">
           {L.doc.steps.slice(0, 200).map((s) => {
             const at = pathway.indexOf(s.id);
@@ -352,6 +360,12 @@ export default function Workbench({ loaderData }: Route.ComponentProps) {
           })}
         </div>
         {T && pathway.length > 0 && <EnergyProfile ref={profileRef} points={profile} T={T} />}
+        {unknownLevels.length > 0 && (
+          <p className="text-xs text-brick-700" role="status" data-testid="profile-unknown">
+            Levels marked ? are unknown: {unknownLevels.join("; ")}.
+          </p>
+        )}
+        {T && cycle && <CyclePanel summary={cycle} T={T} />}
         <div className="flex gap-2">
           <button type="button" className="btn-quiet" onClick={() => profileRef.current && downloadSvg(profileRef.current, "saddlebook-profile.svg")}>
             SVG

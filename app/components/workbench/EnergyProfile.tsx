@@ -31,7 +31,7 @@ export const EnergyProfile = forwardRef<SVGSVGElement, { points: ProfilePoint[];
   return (
     <svg ref={ref} viewBox={`0 0 ${width} ${height}`} width="100%" role="img" aria-label="Free-energy profile" data-testid="energy-profile" style={{ maxWidth: width }}>
       <text x={m.l} y={15} fontSize={12} fill="#223040" fontWeight={600}>
-        Relative free energy at {Number(T.toPrecision(6))} K (kJ/mol)
+        Relative free energy at {Number(T.toPrecision(6))} K, 1 mol/L standard state (kJ/mol)
       </text>
       {ticks.map((v) => (
         <g key={v}>
