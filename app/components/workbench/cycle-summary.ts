@@ -6,10 +6,10 @@
  * the TOF-determining transition state and intermediate by name, δE, and each state's degree of
  * TOF control. Energies J/mol in the 1 mol/L standard state; TOF in s⁻¹.
  */
-import { energeticSpan, findCatalyticCycle, parseFormula, reactionPath, type EnergeticSpan } from "../../../solver/index";
+import { energeticSpan, findCatalyticCycle, parseFormula, reactionPath, type EnergeticSpan, type StoichTerm } from "../../../solver/index";
 import type { MechanismDocument } from "../../../solver/exchange-format";
 import { namesOf } from "../names";
-import type { StepNumbers } from "./step-rates";
+import { pathSteps, stateText, type StepNumbers } from "./step-rates";
 
 /** The cycle's steps in order, starting with the step that consumes the catalyst; null when the mechanism has none. */
 export function defaultCycle(doc: MechanismDocument): string[] | null {
@@ -44,19 +44,14 @@ export type CycleSummary =
 
 export function cycleSummary(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[], T: number): CycleSummary {
   const names = namesOf(doc);
-  const byId = new Map(numbers.map((n) => [n.id, n]));
-  const steps = pathway.flatMap((id) => {
-    const st = doc.steps.find((s) => s.id === id);
-    const n = byId.get(id);
-    return st && n ? [{ id, reactants: st.reactants, products: st.products, dGts: n.dG, dGrxn: n.dGrxn1M }] : [];
-  });
+  const steps = pathSteps(doc, numbers, pathway);
   const path = reactionPath(steps);
   if (!path.catalyst) return { kind: "none" };
   const catalyst = names.species(path.catalyst);
   const missing = steps.filter((s) => s.dGrxn === null).map((s) => `“${names.step(s.id)}” has no ΔG°rxn`);
   const noTs = steps.filter((s) => s.dGts === null).map((s) => `“${names.step(s.id)}” has no ΔG‡ at this temperature`);
   if (missing.length || noTs.length) return { kind: "unknown", catalyst, reason: [...missing, ...noTs].join("; ") };
-  const label = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ");
+  const label = (terms: StoichTerm[]) => stateText(names, terms);
   const I = path.states.slice(0, -1).map((s) => s.G!);
   const TS = path.transitionStates.map((s) => s.G!);
   const dGr = path.states[path.states.length - 1].G! - path.states[0].G!;

@@ -6,8 +6,8 @@
  * Units: T in K; k in (mol/L)^(1−m)·s⁻¹; energies J/mol; half-lives s.
  */
 import { stepToEngine, type MechanismDocument } from "../../../solver/exchange-format";
-import { R_GAS, convertBarrier, equilibriumConstant, reactionPath, reverseRateConstant } from "../../../solver/index";
-import { namesOf } from "../names";
+import { R_GAS, convertBarrier, equilibriumConstant, reactionPath, reverseRateConstant, type PathStep, type StoichTerm } from "../../../solver/index";
+import { namesOf, type Names } from "../names";
 import { thermalReferenceWarning } from "../barrier-text";
 import { barrierWarning } from "../step-guards";
 
@@ -71,6 +71,21 @@ export function stepNumbers(doc: MechanismDocument, T: number): StepNumbers[] {
   });
 }
 
+/** The pathway's steps with their energies at T (J/mol; ΔG°rxn in 1 mol/L), for solver/reaction-path.ts. */
+export function pathSteps(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): PathStep[] {
+  const byId = new Map(numbers.map((n) => [n.id, n]));
+  return pathway.flatMap((id) => {
+    const st = doc.steps.find((s) => s.id === id);
+    const n = byId.get(id);
+    return st && n ? [{ id, reactants: st.reactants, products: st.products, dGts: n.dG, dGrxn: n.dGrxn1M }] : [];
+  });
+}
+
+/** A state's species by name, "Cat + 2 AcOH" ("∅" when nothing is left). */
+export function stateText(names: Names, terms: StoichTerm[]): string {
+  return terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ") || "∅";
+}
+
 export interface ProfilePoint {
   kind: "minimum" | "ts";
   label: string;
@@ -88,15 +103,10 @@ export interface ProfilePoint {
  * unknown (null), saying which step lacks it; nothing is assumed zero.
  */
 export function freeEnergyProfile(doc: MechanismDocument, numbers: StepNumbers[], pathway: string[]): ProfilePoint[] {
-  const byId = new Map(numbers.map((n) => [n.id, n]));
   const names = namesOf(doc);
-  const steps = pathway.flatMap((id) => {
-    const st = doc.steps.find((s) => s.id === id);
-    const n = byId.get(id);
-    return st && n ? [{ id, reactants: st.reactants, products: st.products, dGts: n.dG, dGrxn: n.dGrxn1M }] : [];
-  });
+  const steps = pathSteps(doc, numbers, pathway);
   const path = reactionPath(steps);
-  const stateLabel = (terms: { species: string; coef: number }[]) => terms.map((t) => (t.coef === 1 ? names.species(t.species) : `${t.coef} ${names.species(t.species)}`)).join(" + ") || "∅";
+  const stateLabel = (terms: StoichTerm[]) => stateText(names, terms);
   const why = (id: string | null, own: boolean) => (id === null ? null : own ? `“${names.step(id)}” has no ΔG‡ at this temperature` : `“${names.step(id)}” has no ΔG°rxn`);
   const pts: ProfilePoint[] = [];
   path.states.forEach((s, k) => {
