@@ -19,7 +19,7 @@ import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rate
 import { cycleSummary, defaultCycle } from "~/components/workbench/cycle-summary";
 import { CyclePanel } from "~/components/workbench/CyclePanel";
 import { namesOf, type Names } from "~/components/names";
-import { describeBarrier } from "~/components/barrier-text";
+import { describeBarrier, describeThermo } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
@@ -409,6 +409,8 @@ function StepPanel({
       <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
         <dt>barrier</dt>
         <dd className="num">{describeBarrier(st.barrier)}</dd>
+        <dt>reaction free energy</dt>
+        <dd className="num">{st.reactionThermo ? describeThermo(st.reactionThermo) : "not given"}</dd>
         <dt>k_fwd</dt>
         <dd className="num">
           {num(n.kf)} {n.kfUnit}
