@@ -99,3 +99,5 @@ export {
 } from "./analysis.ts";
 export { arrheniusRegression, eyringRegression, type ArrheniusResult, type EyringResult, type RatePoint } from "./regression.ts";
 export { fitBarriers, shiftBarrier, type FitExperiment, type FitOptions, type FitParameter, type FitResult, type Observation } from "./fit.ts";
+export { energeticSpan, type EnergeticSpan, type EnergeticSpanInput } from "./energetic-span.ts";
+export { findCatalyticCycle, reactionPath, type CycleStep, type PathState, type PathStep, type PathTransitionState, type ReactionPath } from "./reaction-path.ts";

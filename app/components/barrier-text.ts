@@ -2,7 +2,7 @@
  * A step's barrier as entered, in words and units for the screens (never the document's field
  * names): "ΔG‡ 92.1 kJ/mol at 298.15 K, standard state 1 mol/L". Pure.
  */
-import type { DocumentBarrier } from "../../solver/exchange-format";
+import type { DocumentBarrier, DocumentReactionThermo } from "../../solver/exchange-format";
 import { standardStateText, unitText } from "./units-text";
 import { formatNumber } from "./format";
 
@@ -36,6 +36,14 @@ export function describeBarrier(b: DocumentBarrier): string {
   return barrierRows(b)
     .map(([k, v]) => `${k} ${v}`)
     .join(", ");
+}
+
+/** A step's reaction thermochemistry on one line: "ΔG°rxn −45 kJ/mol at 298.15 K, standard state 1 mol/L". */
+export function describeThermo(t: DocumentReactionThermo): string {
+  const e = (v: number, u: string) => `${v} ${unitText(u)}`;
+  const ss = `standard state ${standardStateText(t.standardState)}`;
+  if (t.form === "dG") return [`ΔG°rxn ${e(t.dG, t.unit)} at ${t.T} K`, t.dH === undefined ? null : `ΔH°rxn ${e(t.dH, t.unit)}`, ss].filter(Boolean).join(", ");
+  return `ΔH°rxn ${e(t.dH, t.unit)}, ΔS°rxn ${e(t.dS, t.entropyUnit)}, ${ss}`;
 }
 
 /** How far (K) from its reference temperature a thermal-form barrier may be used before the screens warn. */

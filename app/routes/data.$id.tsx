@@ -5,7 +5,7 @@
  * result (?fit=<id>) shows each barrier entered → fitted with its standard error, the residuals
  * and the fit statistics.
  */
-import { useMemo } from "react";
+import { useMemo, useState } from "react";
 import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/data.$id";
 import { requireUser } from "~/auth/current-user.server";
@@ -27,6 +27,8 @@ import { nameKeyOf, namer, type NameKey, type NamedDocument, type Names } from "
 import { StepName } from "~/components/StepName";
 import { saveFitAsStepVersions, type SaveOutcome } from "~/compute/fit-save.server";
 import { unitText } from "~/components/units-text";
+import { stepNumbers } from "~/components/workbench/step-rates";
+import { formatNumber } from "~/components/format";
 
 export function meta({ data }: Route.MetaArgs): Route.MetaDescriptors {
   return [{ title: `${data?.dataset?.name ?? "Dataset"} · Saddlebook` }];
@@ -213,7 +215,7 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
         )}
       </section>
 
-      {fit && <FitResult fit={fit} names={names} saved={(actionData as { saved?: SaveOutcome[] } | undefined)?.saved ?? null} />}
+      {fit && <FitResult fit={fit} names={names} T={d.temperatureK} saved={(actionData as { saved?: SaveOutcome[] } | undefined)?.saved ?? null} />}
 
       <section className="panel">
         <h2 className="mb-2 font-semibold">Values</h2>
@@ -225,11 +227,14 @@ export default function DatasetPage({ loaderData, actionData }: Route.ComponentP
 
 function FitChooser({ runs, names }: { runs: { id: number; name: string; steps: string[]; matches: number }[]; names: Names }) {
   const best = [...runs].sort((a, b) => b.matches - a.matches)[0];
+  // Only the steps of the chosen run's mechanism are offered.
+  const [runId, setRunId] = useState<number | undefined>(best?.id);
+  const chosen = runs.find((r) => r.id === runId) ?? best;
   return (
     <div className="space-y-2">
       <label className="block max-w-xl">
         <span className="label">Model run</span>
-        <select name="runId" className="field" defaultValue={best?.id} aria-label="Model run">
+        <select name="runId" className="field" value={runId} onChange={(e) => setRunId(Number(e.target.value))} aria-label="Model run">
           {runs.map((r) => (
             <option key={r.id} value={r.id}>
               #{r.id} {r.name} ({r.matches} of the dataset's species)
@@ -240,7 +245,7 @@ function FitChooser({ runs, names }: { runs: { id: number; name: string; steps: 
       <fieldset>
         <legend className="label">Steps to fit (of the selected run's mechanism)</legend>
         <div className="flex flex-wrap gap-3 text-sm">
-          {[...new Set(runs.flatMap((r) => r.steps))].slice(0, 200).map((s) => (
+          {(chosen?.steps ?? []).slice(0, 200).map((s) => (
             <label key={s} className="inline-flex items-center gap-1">
               <input type="checkbox" name="step" value={s} aria-label={`Fit step ${names.step(s)}`} /> <StepName names={names} id={s} />
             </label>
@@ -251,7 +256,9 @@ function FitChooser({ runs, names }: { runs: { id: number; name: string; steps: 
   );
 }
 
-function FitResult({ fit, saved, names }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]>; saved: SaveOutcome[] | null; names: Names }) {
+function FitResult({ fit, saved, names, T }: { fit: NonNullable<Route.ComponentProps["loaderData"]["fit"]>; saved: SaveOutcome[] | null; names: Names; T: number }) {
+  // k_fwd of each fitted step at the experiment's temperature, with its units
+  const kAt = (st: (typeof fit.fitted)[number]["fittedStep"]) => stepNumbers({ format: "saddlebook.mechanism", version: 1, about: { name: "fit" }, species: [], steps: [st] }, T)[0];
   const s = fit.statistics;
   const resid = useMemo<PlotSeries[]>(
     () =>
@@ -279,6 +286,7 @@ function FitResult({ fit, saved, names }: { fit: NonNullable<Route.ComponentProp
             <th>Fitted</th>
             <th>Shift ± SE</th>
             <th>{Math.round(s.confidence * 100)} % interval</th>
+            <th>Fitted k_fwd at {num(T, 6)} K</th>
           </tr>
         </thead>
         <tbody>
@@ -297,6 +305,12 @@ function FitResult({ fit, saved, names }: { fit: NonNullable<Route.ComponentProp
                 {num(p.shift / 1000, 4)} ± {num(p.se / 1000, 2)} kJ/mol
               </td>
               <td className="num">± {num(p.ci / 1000, 2)} kJ/mol</td>
+              <td className="num" data-testid={`fit-k-${p.stepId}`}>
+                {(() => {
+                  const k = kAt(p.fittedStep);
+                  return k && k.kf !== null ? `k_fwd = ${formatNumber(k.kf, 3)} ${k.kfUnit} at ${num(T, 6)} K` : (k?.problem ?? "—");
+                })()}
+              </td>
             </tr>
           ))}
         </tbody>

@@ -9,6 +9,7 @@ import { requireUser } from "~/auth/current-user.server";
 import { assertCsrf } from "~/auth/csrf.server";
 import { can } from "~/auth/policy.server";
 import { CsrfInput } from "~/components/CsrfInput";
+import { guessConcentrationUnit, isTemperatureColumn, readTemperature, type ConcentrationUnit } from "~/components/workbench/dataset-headers";
 import { DatasetMetaSchema, MappingSchema, applyMapping, datasetTemperatureProblem, guessMapping, guessTimeUnit, parseCsv, type Mapping, type RowError } from "~/components/workbench/dataset-csv";
 import { getDb } from "../../db/client.server";
 import { mechanismReadable } from "../../db/access/mechanisms.server";
@@ -156,11 +157,27 @@ function Upload({ actionData: a }: { actionData?: ActionData }) {
   const [mapping, setMapping] = useState<Mapping | null>(null);
   const [timeUnit, setTimeUnit] = useState<"s" | "min" | "h">("min");
   const [lastHeader, setLastHeader] = useState("");
-  if (header && header.join("\u0000") !== lastHeader) {
+  const [temperature, setTemperature] = useState("25");
+  const [temperatureUnit, setTemperatureUnit] = useState<"K" | "degC">("degC");
+  const [concentrationUnit, setConcentrationUnit] = useState<ConcentrationUnit>("mol/L");
+  const [readNote, setReadNote] = useState("");
+  if (header && parsed?.ok && header.join("\u0000") !== lastHeader) {
+    // Read what the file says about itself: time and concentration units from the headers, the
+    // temperature from a comment line or a temperature column (which is then no species).
     setLastHeader(header.join("\u0000"));
     const g = guessMapping(header);
+    for (const h of header) if (isTemperatureColumn(h)) delete g.species[h];
     setMapping(g);
     setTimeUnit(guessTimeUnit(g.time) ?? "min");
+    const units = [...new Set(Object.keys(g.species).map(guessConcentrationUnit).filter((u): u is ConcentrationUnit => u !== null))];
+    if (units.length === 1) setConcentrationUnit(units[0]);
+    const T = readTemperature(text, header, parsed.value.rows);
+    if (T.ok && T.value) {
+      setTemperature(String(Number(T.value.K.toFixed(4))));
+      setTemperatureUnit("K");
+    }
+    const notes = [units.length === 1 ? `concentrations in ${units[0] === "umol/L" ? "µmol/L" : units[0]} from the column headers` : units.length > 1 ? "the columns name different concentration units: store them as separate datasets" : "", T.ok ? (T.value ? `temperature ${T.value.K.toFixed(2)} K from the ${T.value.from}` : "") : T.message];
+    setReadNote(notes.filter(Boolean).join("; "));
   }
   const err = (k: string) => a?.fields[k];
 
@@ -189,6 +206,11 @@ function Upload({ actionData: a }: { actionData?: ActionData }) {
           </label>
           <input type="hidden" name="filename" value={filename} />
           {parsed && !parsed.ok && <p className="text-sm text-brick-700">{parsed.message}</p>}
+          {readNote && (
+            <p className="text-xs text-ink-600" role="status" data-testid="dataset-read-note">
+              Read from the file: {readNote}. Check them before storing.
+            </p>
+          )}
           {parsed?.ok && (
             <p className="text-xs text-ink-500">
               {parsed.value.rows.length} data rows, {parsed.value.header.length} columns, separated by “{parsed.value.delimiter === "\t" ? "tab" : parsed.value.delimiter}”.
@@ -268,18 +290,18 @@ function Upload({ actionData: a }: { actionData?: ActionData }) {
             </label>
             <label className="block">
               <span className="label">Temperature</span>
-              <input name="temperature" className={`field num ${err("temperature") ? "field-error" : ""}`} defaultValue="25" inputMode="decimal" />
+              <input name="temperature" className={`field num ${err("temperature") ? "field-error" : ""}`} value={temperature} onChange={(e) => setTemperature(e.target.value)} inputMode="decimal" />
             </label>
             <label className="block">
               <span className="label">unit</span>
-              <select name="temperatureUnit" className="field" defaultValue="degC">
+              <select name="temperatureUnit" className="field" value={temperatureUnit} onChange={(e) => setTemperatureUnit(e.target.value as "K" | "degC")}>
                 <option value="K">K</option>
                 <option value="degC">°C</option>
               </select>
             </label>
             <label className="block">
               <span className="label">Concentration unit</span>
-              <select name="concentrationUnit" className="field" defaultValue="mol/L">
+              <select name="concentrationUnit" className="field" value={concentrationUnit} onChange={(e) => setConcentrationUnit(e.target.value as ConcentrationUnit)}>
                 <option value="mol/L">mol/L</option>
                 <option value="mmol/L">mmol/L</option>
                 <option value="umol/L">µmol/L</option>

@@ -17,8 +17,10 @@ import { EnergyProfile } from "~/components/workbench/EnergyProfile";
 import { ConditionsForm, buildRequest, defaultDraft, type ConditionsDraft } from "~/components/workbench/ConditionsForm";
 import { CautionNote } from "~/components/workbench/CautionNote";
 import { freeEnergyProfile, stepNumbers } from "~/components/workbench/step-rates";
+import { cycleSummary, defaultCycle } from "~/components/workbench/cycle-summary";
+import { CyclePanel } from "~/components/workbench/CyclePanel";
 import { namesOf, type Names } from "~/components/names";
-import { describeBarrier } from "~/components/barrier-text";
+import { describeBarrier, describeThermo } from "~/components/barrier-text";
 import { duration, num } from "~/components/workbench/format";
 import { downloadSvg, downloadSvgAsPng } from "~/components/plots/svg-export";
 import { HIGH_CONCENTRATION_MOL_L, toEngineConditions } from "~/compute/run-request";
@@ -209,8 +211,11 @@ function WorkbenchWithSteps({ loaderData }: Route.ComponentProps) {
   const conditionsDirty = JSON.stringify(draft) !== settledDraft;
   const leave = useLeaveGuard(dirty.add || dirty.panel || conditionsDirty);
   const [selected, setSelected] = useState<string | null>(null);
-  const [pathway, setPathway] = useState<string[]>(() => L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
+  // The pathway starts as the mechanism's catalytic cycle when it has one, else its first steps.
+  const [pathway, setPathway] = useState<string[]>(() => defaultCycle(L.doc) ?? L.doc.steps.slice(0, Math.min(4, L.doc.steps.length)).map((s) => s.id));
   const profile = useMemo(() => freeEnergyProfile(L.doc, numbers, pathway), [L.doc, numbers, pathway]);
+  const cycle = useMemo(() => (T && pathway.length ? cycleSummary(L.doc, numbers, pathway, T) : null), [L.doc, numbers, pathway, T]);
+  const unknownLevels = [...new Set(profile.flatMap((p) => (p.unknown ? [p.unknown] : [])))];
   const profileRef = useRef<SVGSVGElement>(null);
   const layoutFetcher = useFetcher();
   const presetFetcher = useFetcher();
@@ -400,7 +405,10 @@ function WorkbenchWithSteps({ loaderData }: Route.ComponentProps) {
 
       <section className="panel space-y-2">
         <h2 className="font-semibold">Free-energy profile</h2>
-        <p className="text-xs text-ink-500">Tick the steps of a pathway in order (each taken forward). Intermediates need the step's reaction free energy.</p>
+        <p className="text-xs text-ink-500">
+          Tick the steps of a pathway in order (each taken forward); a mechanism's catalytic cycle is ticked to begin with. Levels are the species present, in kJ/mol relative
+          to the first, at the temperature above in the 1 mol/L standard state; intermediates need the step's reaction free energy (ΔG°rxn).
+        </p>
         <div className="flex flex-wrap gap-2 text-sm">
           {L.doc.steps.slice(0, 200).map((s) => {
             const at = pathway.indexOf(s.id);
@@ -414,6 +422,12 @@ function WorkbenchWithSteps({ loaderData }: Route.ComponentProps) {
           })}
         </div>
         {T && pathway.length > 0 && <EnergyProfile ref={profileRef} points={profile} T={T} />}
+        {unknownLevels.length > 0 && (
+          <p className="text-xs text-brick-700" role="status" data-testid="profile-unknown">
+            Levels marked ? are unknown: {unknownLevels.join("; ")}.
+          </p>
+        )}
+        {T && cycle && <CyclePanel summary={cycle} T={T} />}
         <div className="flex gap-2">
           <button type="button" className="btn-quiet" onClick={() => profileRef.current && downloadSvg(profileRef.current, "saddlebook-profile.svg")}>
             SVG
@@ -457,6 +471,8 @@ function StepPanel({
       <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
         <dt>barrier</dt>
         <dd className="num">{describeBarrier(st.barrier)}</dd>
+        <dt>reaction free energy</dt>
+        <dd className="num">{st.reactionThermo ? describeThermo(st.reactionThermo) : "not given"}</dd>
         <dt>k_fwd</dt>
         <dd className="num">
           {num(n.kf)} {n.kfUnit}

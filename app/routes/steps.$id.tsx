@@ -15,7 +15,7 @@ import { balanceOf } from "~/components/library/balance";
 import { speciesIdOfKey, type StepStatus } from "~/components/library/step-schema";
 import { StatusBadge } from "~/components/library/StatusBadge";
 import { energyIn, entropyIn, sig, temperatureText, unitLabel } from "~/components/library/format";
-import { barrierRows } from "~/components/barrier-text";
+import { barrierRows, describeThermo } from "~/components/barrier-text";
 import type { EnergyUnit, EntropyUnit } from "../../solver/units";
 import { thermalReferenceWarning } from "~/components/barrier-text";
 import { RestoreVersionButton } from "~/components/library/RestoreVersionButton";
@@ -238,6 +238,8 @@ export default function StepPage({ loaderData: d }: Route.ComponentProps) {
                 <dd className="num">{v}</dd>
               </div>
             ))}
+            <dt>reaction free energy</dt>
+            <dd className="num" data-testid="step-reaction-energy">{d.content.reactionThermo ? describeThermo(d.content.reactionThermo) : "not given"}</dd>
             {d.content.kappa !== undefined && (
               <>
                 <dt>κ</dt>

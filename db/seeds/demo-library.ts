@@ -3,7 +3,9 @@
  * publication or laboratory: a fictional aminopyridine-catalysed acetylation of a series of
  * alcohols by acetic anhydride, with its uncatalysed background, hydrolysis, a ketene side
  * pathway and catalyst sequestration by acetic acid. Barriers are plausible magnitudes
- * chosen for the demo (ΔG‡ 50–110 kJ/mol), marked illustrative in provenance and tags.
+ * chosen for the demo (ΔG‡ 50–110 kJ/mol), marked illustrative in provenance and tags; the
+ * catalytic cycle's two steps carry invented reaction free energies (+12 and −45 kJ/mol) so the
+ * workbench can show its free-energy profile and energetic span.
  * Formulas balance (checked by tests/library/demo-seed.test.ts).
  *
  * Demo users (db/seeds/demo-identities.ts): author@ owns most steps and two mechanisms,
@@ -97,6 +99,7 @@ export async function seedDemoLibrary(db: Knex): Promise<void> {
       reactants: terms([["Cat"], ["Ac2O"]]),
       products: terms([["IP"]]),
       barrier: { form: "dG", dG: 58.5, unit: "kJ/mol", T: 298.15, standardState: "1M", dH: 41.0 },
+      reactionThermo: { form: "dG", dG: 12.0, unit: "kJ/mol", T: 298.15, standardState: "1M" },
       validRange: { Tmin: 273.15, Tmax: 343.15 },
       uncertainty: { value: 4, unit: "kJ/mol" },
       provenance: dft("acetonitrile"),
@@ -203,6 +206,7 @@ export async function seedDemoLibrary(db: Knex): Promise<void> {
         reactants: terms([["IP"], [a.key]]),
         products: terms([[`${a.key}-ester`], ["Cat"], ["AcOH"]]),
         barrier: { form: "dG", dG: Number((66 + a.shift).toFixed(1)), unit: "kJ/mol", T: 298.15, standardState: "1M", dH: Number((44 + a.shift).toFixed(1)) },
+        reactionThermo: { form: "dG", dG: -45.0, unit: "kJ/mol", T: 298.15, standardState: "1M" },
         validRange: { Tmin: 273.15, Tmax: 343.15 },
         uncertainty: { value: 5, unit: "kJ/mol" },
         provenance: dft("acetonitrile"),

@@ -65,6 +65,8 @@ describe.skipIf(!hasApp())("measured data and fits in the browser", () => {
     expect(se).toBeGreaterThan(0);
     expect(Math.abs(83e3 + shift - 85e3)).toBeLessThanOrEqual(se);
     expect(await b.page.getByTestId("fit-after-ab").textContent()).toMatch(/ΔG‡\(298\.15 K\) = 85\.0\d* kJ\/mol/);
+    // the fitted k at the experiment's temperature with its units: (k_BT/h)e^(−85 kJ/mol / RT) ≈ 0.008 s⁻¹ (Eyring, CODATA 2018)
+    expect(await b.page.getByTestId("fit-k-ab").textContent()).toMatch(/^k_fwd = 0\.00[789]\d* s⁻¹ at 298\.15 K$/);
     await expect.poll(() => b.page.getByTestId("residual-plot").getAttribute("data-ready"), { timeout: 15_000 }).toBe("1");
     expect(b.problems).toEqual([]);
     await b.screenshot("workbench-fit");

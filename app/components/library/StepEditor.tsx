@@ -13,7 +13,7 @@ import { stepToEngine } from "../../../solver/exchange-format";
 import { convertBarrier } from "../../../solver/rates";
 import { ENERGY_CHOICES, ENTROPY_CHOICES, energyIn, entropyIn, sig, unitLabel } from "./format";
 import { SOURCE_TYPES } from "./step-schema";
-import { thermalReferenceWarning } from "../barrier-text";
+import { describeThermo, thermalReferenceWarning } from "../barrier-text";
 import { barrierWarning } from "../step-guards";
 import { useLeaveGuard } from "../LeaveGuard";
 
@@ -184,7 +184,21 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
           <label className="flex items-center gap-2 text-sm">
             <input type="checkbox" checked={f.reversible} onChange={(e) => set("reversible", e.target.checked)} /> Reversible (reverse rate from detailed balance)
           </label>
-          {f.reversible && numField("rxnDG", "ΔG°rxn at 298.15 K", "reactionThermo.dG", eu)}
+          <div className="grid gap-3 md:grid-cols-4" data-testid="reaction-energy-fields">
+            {numField("rxnDG", f.reversible ? "ΔG°rxn" : "ΔG°rxn (optional)", "reactionThermo.dG", eu)}
+            {numField("rxnDH", "ΔH°rxn (optional)", "reactionThermo.dH", eu)}
+            {numField("rxnT", "temperature of ΔG°rxn", "reactionThermo.T", tUnit)}
+            <div>
+              <label className="label" htmlFor="f-rxnSS">
+                Standard state of ΔG°rxn
+              </label>
+              <StandardStateSelect id="f-rxnSS" value={f.rxnSS} onChange={(v) => set("rxnSS", v)} />
+            </div>
+          </div>
+          <p className="text-xs text-ink-600">
+            The reaction free energy places the step's products on the free-energy profile and, for a reversible step, gives k_rev by detailed balance.
+            {f.rxnKept && !f.rxnDG.trim() ? ` Stored: ${describeThermo(f.rxnKept)} — kept unless you type a ΔG°rxn.` : ""}
+          </p>
         </section>
         <section className="panel space-y-3">
           <div className="grid gap-3 md:grid-cols-4">
@@ -276,11 +290,7 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
                 <label className="label" htmlFor="f-ss">
                   Standard state
                 </label>
-                <select id="f-ss" className="field" value={f.standardState} onChange={(e) => set("standardState", e.target.value as StepFormState["standardState"])}>
-                  <option value="1M">1 mol/L (solution)</option>
-                  <option value="1bar">1 bar (gas)</option>
-                  <option value="1atm">1 atm (gas)</option>
-                </select>
+                <StandardStateSelect id="f-ss" value={f.standardState} onChange={(v) => set("standardState", v)} />
               </div>
             )}
           </div>
@@ -398,5 +408,15 @@ export function StepEditor({ species, initial, serverErrors, submitLabel, baseVe
         </section>
       </aside>
     </div>
+  );
+}
+
+function StandardStateSelect({ id, value, onChange }: { id: string; value: StepFormState["standardState"]; onChange: (v: StepFormState["standardState"]) => void }) {
+  return (
+    <select id={id} className="field" value={value} onChange={(e) => onChange(e.target.value as StepFormState["standardState"])}>
+      <option value="1M">1 mol/L (solution)</option>
+      <option value="1bar">1 bar (gas)</option>
+      <option value="1atm">1 atm (gas)</option>
+    </select>
   );
 }

@@ -4,7 +4,7 @@
  * receives the built StepInput and validates it again with the same zod schema.
  * Temperatures typed in °C are converted to K here (T/K = t/°C + 273.15).
  */
-import type { DocumentStep } from "../../../solver/exchange-format";
+import type { DocumentReactionThermo, DocumentStep } from "../../../solver/exchange-format";
 import { StepInputSchema, fieldErrors, speciesKey, type StepInput } from "./step-schema";
 
 export type BarrierForm = "dG" | "dHdS" | "thermal" | "arrhenius" | "measured";
@@ -28,7 +28,16 @@ export interface StepFormState {
   A: string;
   n: string;
   k: string;
+  /** ΔG°rxn, optional on every step (required for a reversible one), in `eu` */
   rxnDG: string;
+  /** ΔH°rxn (optional; gives ΔG°rxn its temperature dependence), in `eu` */
+  rxnDH: string;
+  /** temperature ΔG°rxn refers to, in `tu` */
+  rxnT: string;
+  /** standard state of ΔG°rxn */
+  rxnSS: "1M" | "1bar" | "1atm";
+  /** A stored ΔH°/ΔS° reaction thermochemistry, kept as it is unless a ΔG°rxn is typed. */
+  rxnKept: DocumentReactionThermo | null;
   kappa: string;
   imag: string;
   tmin: string;
@@ -65,6 +74,10 @@ export function emptyForm(): StepFormState {
     n: "",
     k: "",
     rxnDG: "",
+    rxnDH: "",
+    rxnT: "298.15",
+    rxnSS: "1M",
+    rxnKept: null,
     kappa: "",
     imag: "",
     tmin: "",
@@ -104,7 +117,15 @@ export function formFromContent(c: DocumentStep, display: { temperatureUnit?: st
   if (b.form === "thermal") Object.assign(f, { Ea: str(b.Ea), dS: str(b.dS), dn: str(b.dn), Tref: t(b.T) });
   if (b.form === "arrhenius") Object.assign(f, { A: str(b.A), Ea: str(b.Ea), n: str(b.n), Tref: t(b.T) });
   if (b.form === "measured") Object.assign(f, { k: str(b.k), Tref: t(b.T), Ea: str(b.Ea) });
-  if (c.reactionThermo?.form === "dG") f.rxnDG = str(c.reactionThermo.dG);
+  const th = c.reactionThermo;
+  if (th) f.rxnSS = th.standardState;
+  if (th?.form === "dG") Object.assign(f, { rxnDG: str(th.dG), rxnDH: str(th.dH), rxnT: t(th.T) });
+  else if (th) f.rxnKept = th;
+  if (th?.form === "dG" && th.unit !== (f.eu as string)) {
+    // the form types ΔG°rxn in the barrier's energy unit: keep a value stored in another unit as it is
+    f.rxnKept = th;
+    Object.assign(f, { rxnDG: "", rxnDH: "" });
+  }
   f.kappa = str(c.kappa);
   f.imag = str(c.imaginaryFrequency?.value);
   f.tmin = t(c.validRange?.Tmin);
@@ -191,7 +212,11 @@ export function buildStepInput(f: StepFormState): BuiltForm {
       break;
     }
   }
-  const rxnDG = num("reactionThermo.dG", f.rxnDG, f.reversible);
+  const rxnDG = num("reactionThermo.dG", f.rxnDG, f.reversible && !f.rxnKept);
+  const rxnDH = num("reactionThermo.dH", f.rxnDH, false);
+  const rxnT = f.rxnDG.trim() ? toK("reactionThermo.T", f.rxnT, true) : undefined;
+  let reactionThermo: DocumentReactionThermo | undefined = f.rxnKept ?? undefined;
+  if (rxnDG !== undefined && rxnT !== undefined) reactionThermo = { form: "dG", dG: rxnDG, unit: f.eu, T: rxnT, standardState: f.rxnSS, ...(rxnDH !== undefined ? { dH: rxnDH } : {}) };
   const kappa = num("kappa", f.kappa, false);
   const imag = num("imaginaryFrequency", f.imag, false);
   const tmin = toK("validRange.Tmin", f.tmin, false);
@@ -205,7 +230,7 @@ export function buildStepInput(f: StepFormState): BuiltForm {
     products: terms("products"),
     reversible: f.reversible,
     barrier,
-    ...(f.reversible && rxnDG !== undefined ? { reactionThermo: { form: "dG" as const, dG: rxnDG, unit: f.eu, T: 298.15, standardState: f.standardState } } : {}),
+    ...(reactionThermo ? { reactionThermo } : {}),
     ...(kappa !== undefined ? { kappa } : {}),
     ...(imag !== undefined ? { imaginaryFrequency: imag } : {}),
     ...(tmin !== undefined && tmax !== undefined ? { validRange: { Tmin: tmin, Tmax: tmax } } : {}),

@@ -17,6 +17,7 @@ import { termsBalance } from "../step-guards";
 import { stepNumbers } from "../workbench/step-rates";
 import { reactionText } from "../names";
 import { useLeaveGuard } from "../LeaveGuard";
+import { ReactionEnergyFields, freshReactionEnergy, thermoOfDraft, type ReactionEnergyDraft } from "../ReactionEnergyFields";
 
 export interface EditorEntry {
   key: string;
@@ -97,6 +98,8 @@ export function MechanismEditor(p: Props) {
   const [ls, setLs] = useState(freshLocal);
   const [terms, setTerms] = useState<TermsDraft>(emptyTerms);
   const [lsError, setLsError] = useState("");
+  const [rxn, setRxn] = useState<ReactionEnergyDraft>(freshReactionEnergy);
+  const rxnRead = thermoOfDraft(rxn);
   const nameOfKey = (k: string) => byKey.get(k)?.label ?? species.find((s) => s.key === k)?.label ?? k;
   const reactants = termsOf(terms.reactants);
   const products = termsOf(terms.products);
@@ -112,6 +115,7 @@ export function MechanismEditor(p: Props) {
           products,
           reversible: false,
           barrier: { form: "dG", dG: dGValue, unit: ls.unit as "kJ/mol", T: TValue, standardState: ls.standardState },
+          ...(rxnRead.thermo ? { reactionThermo: rxnRead.thermo } : {}),
           provenance: { source: "estimated" },
         }
       : null;
@@ -123,6 +127,7 @@ export function MechanismEditor(p: Props) {
     if ([...reactants, ...products].some((t) => !(t.coef > 0))) return setLsError("Coefficients must be positive numbers.");
     if (!ls.dG.trim() || !Number.isFinite(dGValue)) return setLsError("ΔG‡ must be a number.");
     if (!(TValue > 0)) return setLsError("T must be above 0 K.");
+    if (rxnRead.error) return setLsError(rxnRead.error);
     let n = entries.length + 1;
     while (entries.some((e) => e.key === `local-${n}`)) n++;
     const key = `local-${n}`;
@@ -132,6 +137,7 @@ export function MechanismEditor(p: Props) {
     const newKeys = [...new Set([...reactants, ...products].map((t) => t.species))].filter((k) => !species.some((s) => s.key === k));
     if (newKeys.length) setSpecies([...species, ...newKeys.flatMap((k) => (byKey.has(k) ? [{ key: k, speciesId: byKey.get(k)!.id, label: byKey.get(k)!.label, formula: byKey.get(k)!.formula }] : []))]);
     setLs(freshLocal);
+    setRxn(freshReactionEnergy());
     setTerms(emptyTerms());
     setLsError("");
   };
@@ -161,6 +167,7 @@ export function MechanismEditor(p: Props) {
     JSON.stringify(species.map((s) => s.key)) !== JSON.stringify(p.species.map((s) => s.key)) ||
     JSON.stringify(entries) !== JSON.stringify(p.entries) ||
     JSON.stringify(ls) !== JSON.stringify(freshLocal) ||
+    rxn.dG.trim() !== "" ||
     JSON.stringify(terms) !== JSON.stringify(emptyTerms());
   const leave = useLeaveGuard(dirty);
   const payload = JSON.stringify({
@@ -290,6 +297,7 @@ export function MechanismEditor(p: Props) {
                 <option value="1atm">1 atm (gas)</option>
               </select>
             </div>
+            <ReactionEnergyFields d={rxn} onChange={setRxn} prefix="Local step" />
             {localCaution && (
               <p className="text-xs text-brick-700" role="status" data-testid="local-caution">
                 {localCaution}

@@ -31,7 +31,7 @@ export const EnergyProfile = forwardRef<SVGSVGElement, { points: ProfilePoint[];
   return (
     <svg ref={ref} viewBox={`0 0 ${width} ${height}`} width="100%" role="img" aria-label="Free-energy profile" data-testid="energy-profile" style={{ maxWidth: width }}>
       <text x={m.l} y={15} fontSize={12} fill="#223040" fontWeight={600}>
-        Relative free energy at {Number(T.toPrecision(6))} K (kJ/mol)
+        Relative free energy at {Number(T.toPrecision(6))} K, 1 mol/L standard state (kJ/mol)
       </text>
       {ticks.map((v) => (
         <g key={v}>
@@ -50,13 +50,14 @@ export const EnergyProfile = forwardRef<SVGSVGElement, { points: ProfilePoint[];
         if (p.G === null)
           return (
             <text key={i} x={x} y={m.t + ph - 4} fontSize={11} textAnchor="middle" fill="#8a2f25">
-              ?
+              <title>{`${p.label}: unknown${p.unknown ? ` (${p.unknown})` : ""}`}</title>?
             </text>
           );
         const y = sy(p.G / 1000);
         const ts = p.kind === "ts";
         return (
           <g key={i}>
+            <title>{`${p.label}: ${(p.G / 1000).toFixed(1)} kJ/mol`}</title>
             <line x1={x - bar / 2} x2={x + bar / 2} y1={y} y2={y} stroke={ts ? "#a65a2b" : "#172230"} strokeWidth={ts ? 2 : 3} strokeLinecap="round" />
             <text x={x} y={y - 6} fontSize={10.5} textAnchor="middle" fill={ts ? "#844624" : "#172230"} fontWeight={600}>
               {(p.G / 1000).toFixed(1)}

@@ -22,6 +22,7 @@ import { describeBarrier } from "../barrier-text";
 import { standardStateText } from "../units-text";
 import { StepTermsEditor, emptyTerms, termsOf, type TermsDraft } from "../StepTermsEditor";
 import { termsBalance } from "../step-guards";
+import { ReactionEnergyFields, freshReactionEnergy, reactionEnergyDraftOf, thermoOfDraft, type ReactionEnergyDraft } from "../ReactionEnergyFields";
 
 export interface EntryInfo {
   kind: "library" | "local";
@@ -282,11 +283,14 @@ export function AddStepControl({
   const [localLabel, setLocalLabel] = useState("");
   const [terms, setTerms] = useState<TermsDraft>(emptyTerms);
   const [barrier, setBarrier] = useState<BarrierDraft>(freshBarrier);
+  const [rxn, setRxn] = useState<ReactionEnergyDraft>(freshReactionEnergy);
+  const rxnRead = thermoOfDraft(rxn);
   const localStep = useMemo<DocumentStep | null>(() => {
     let n = doc.steps.length + 1;
     while (doc.steps.some((s) => s.id === `local-${n}`)) n++;
-    return { id: `local-${n}`, ...(localLabel.trim() ? { label: localLabel.trim() } : {}), reactants: termsOf(terms.reactants), products: termsOf(terms.products), reversible: false, barrier: barrierOf(barrier), provenance: { source: "estimated" } };
-  }, [doc.steps, localLabel, terms, barrier]);
+    const rt = thermoOfDraft(rxn).thermo;
+    return { id: `local-${n}`, ...(localLabel.trim() ? { label: localLabel.trim() } : {}), reactants: termsOf(terms.reactants), products: termsOf(terms.products), reversible: false, barrier: barrierOf(barrier), ...(rt ? { reactionThermo: rt } : {}), provenance: { source: "estimated" } };
+  }, [doc.steps, localLabel, terms, barrier, rxn]);
   const localValid = localStep && StepSchema.safeParse(localStep).success ? localStep : null;
   // Balance from formulas: the mechanism's species, then the registry's.
   const formulaOf = useMemo(() => {
@@ -296,11 +300,12 @@ export function AddStepControl({
     return m;
   }, [doc.species, allSpecies]);
   const localBalance = localStep ? termsBalance(localStep.reactants, localStep.products, (k) => formulaOf.get(k)) : null;
-  useReportDirty(localLabel.trim() !== "" || JSON.stringify(terms) !== JSON.stringify(emptyTerms()) || JSON.stringify(barrier) !== JSON.stringify(freshBarrier()), onDirty);
+  useReportDirty(localLabel.trim() !== "" || JSON.stringify(terms) !== JSON.stringify(emptyTerms()) || JSON.stringify(barrier) !== JSON.stringify(freshBarrier()) || rxn.dG.trim() !== "", onDirty);
   const resetLocal = () => {
     setLocalLabel("");
     setTerms(emptyTerms());
     setBarrier(freshBarrier());
+    setRxn(freshReactionEnergy());
   };
 
   if (!open)
@@ -353,13 +358,14 @@ export function AddStepControl({
           <input className="field" aria-label="New step label" placeholder="Label (optional)" value={localLabel} onChange={(e) => setLocalLabel(e.target.value)} />
           <StepTermsEditor value={terms} onChange={setTerms} options={options} label={(k, i) => `New step ${k === "reactants" ? "reactant" : "product"} ${i + 1}`} balance={localBalance} />
           <BarrierFields d={barrier} onChange={setBarrier} prefix="New step" />
+          <ReactionEnergyFields d={rxn} onChange={setRxn} prefix="New step" />
           <LiveK doc={doc} step={localValid} T={T} />
           <SaveEdit
             edit={localStep ? { op: "add-local", step: localStep } : null}
             baseVersion={baseVersion}
             defaultMessage="Added a local step from the graph."
             label="Add step"
-            validate={() => (!localStep?.reactants.length || !localStep.products.length ? "Choose at least one reactant and one product." : null)}
+            validate={() => rxnRead.error ?? (!localStep?.reactants.length || !localStep.products.length ? "Choose at least one reactant and one product." : null)}
             onSaved={resetLocal}
           />
         </div>
@@ -393,21 +399,18 @@ export function StepEditPanel({
   const [barrier, setBarrier] = useState<BarrierDraft>(() => draftOf(st?.barrier, here?.dG ?? null, T));
   const [reversible, setReversible] = useState(!!st?.reversible);
   const thermo = st?.reactionThermo;
-  const [rxn, setRxn] = useState(thermo?.form === "dG" ? String(thermo.dG) : "");
-  const [rxnUnit, setRxnUnit] = useState<EnergyUnit>(thermo && ENERGY_UNITS.includes(thermo.unit as EnergyUnit) ? (thermo.unit as EnergyUnit) : "kJ/mol");
-  const [rxnT, setRxnT] = useState(thermo?.form === "dG" ? String(thermo.T) : "298.15");
+  const [rxn, setRxn] = useState<ReactionEnergyDraft>(() => reactionEnergyDraftOf(thermo));
+  const rxnRead = thermoOfDraft(rxn, thermo);
   const draft = useMemo<DocumentStep | null>(() => {
     if (!st) return null;
     const { reactionThermo: _old, ...rest } = st;
-    let rt = thermo;
-    if (rxn.trim() !== "") rt = { form: "dG", dG: parseNum(rxn), unit: rxnUnit, T: parseNum(rxnT), standardState: thermo?.standardState ?? "1M" };
-    else if (thermo?.form === "dG") rt = undefined;
+    const rt = thermoOfDraft(rxn, thermo).thermo;
     return { ...rest, barrier: barrierOf(barrier), reversible, ...(rt ? { reactionThermo: rt } : {}) };
-  }, [st, thermo, barrier, reversible, rxn, rxnUnit, rxnT]);
-  const valid = draft && StepSchema.safeParse(draft).success ? draft : null;
+  }, [st, thermo, barrier, reversible, rxn]);
+  const valid = draft && !rxnRead.error && StepSchema.safeParse(draft).success ? draft : null;
   // Unsaved: anything changed since the panel opened (it opens afresh on each saved version).
-  const [opened] = useState(() => JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }));
-  useReportDirty(JSON.stringify({ barrier, reversible, rxn, rxnUnit, rxnT }) !== opened, onDirty);
+  const [opened] = useState(() => JSON.stringify({ barrier, reversible, rxn }));
+  useReportDirty(JSON.stringify({ barrier, reversible, rxn }) !== opened, onDirty);
   if (!st) return null;
   const names = namesOf(doc);
   const name = names.step(id);
@@ -468,31 +471,14 @@ export function StepEditPanel({
           <label className="inline-flex items-center gap-2">
             <input type="checkbox" checked={reversible} onChange={(e) => setReversible(e.target.checked)} aria-label="Reversible" /> Reversible (k_rev by detailed balance)
           </label>
-          <div className="grid grid-cols-3 gap-2">
-            <label className="block">
-              <span className="label">ΔG°rxn ({standardStateText(thermo?.standardState ?? "1M")})</span>
-              <input className="field num" aria-label="Reaction free energy" inputMode="decimal" value={rxn} onChange={(e) => setRxn(e.target.value)} placeholder={thermo?.form === "dHdS" ? "kept (ΔH, ΔS)" : ""} />
-            </label>
-            <label className="block">
-              <span className="label">unit</span>
-              <select className="field" aria-label="Reaction free energy unit" value={rxnUnit} onChange={(e) => setRxnUnit(e.target.value as EnergyUnit)}>
-                {ENERGY_UNITS.map((u) => (
-                  <option key={u}>{u}</option>
-                ))}
-              </select>
-            </label>
-            <label className="block">
-              <span className="label">reference temperature (K)</span>
-              <input className="field num" aria-label="Reaction free energy T in K" inputMode="decimal" value={rxnT} onChange={(e) => setRxnT(e.target.value)} />
-            </label>
-          </div>
+          <ReactionEnergyFields d={rxn} onChange={setRxn} prefix="Step" kept={thermo} />
           <LiveK doc={doc} step={valid} T={T} />
           <SaveEdit
             edit={draft ? { op: "set-step", key: id, step: draft } : null}
             baseVersion={baseVersion}
             defaultMessage={`Changed the kinetics of "${name}" in the workbench.`}
             label="Save step"
-            validate={() => (reversible && !draft?.reactionThermo ? "A reversible step needs the reaction free energy." : null)}
+            validate={() => rxnRead.error ?? (reversible && !draft?.reactionThermo ? "A reversible step needs the reaction free energy." : null)}
           />
         </div>
       )}
